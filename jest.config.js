@@ -33,6 +33,15 @@ module.exports = {
       setupFiles: ['<rootDir>/server/test/env.ts'],
     },
     {
+      displayName: 'infra',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/infra/**/*.spec.ts'],
+      transform: tsTransform,
+      moduleNameMapper,
+      transformIgnorePatterns,
+    },
+    {
       displayName: 'web',
       rootDir: path.join(__dirname, 'apps/web'),
       preset: 'jest-preset-angular',
