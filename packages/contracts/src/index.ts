@@ -1,0 +1,5 @@
+export * from './common';
+export * from './identity';
+export * from './catalog';
+export * from './loans';
+export * from './system';

@@ -1,0 +1,223 @@
+import path from 'node:path';
+import { z } from 'zod';
+
+/** The development session secret; refused when NODE_ENV is `production`. */
+export const developmentSessionSecret = 'evalon-development-session-secret-not-for-production';
+
+/** Treats an empty variable like a missing one, so `EVALON_PORT=` falls back to the default. */
+const blankAsMissing = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? undefined : v);
+
+const str = (fallback: string) => z.preprocess(blankAsMissing, z.string().default(fallback));
+const port = (fallback: number) =>
+  z.preprocess(
+    blankAsMissing,
+    z.coerce
+      .number({ error: 'must be a port number' })
+      .int('must be a whole number')
+      .min(0, 'must be between 0 and 65535')
+      .max(65535, 'must be between 0 and 65535')
+      .default(fallback),
+  );
+const positive = (fallback: number) =>
+  z.preprocess(
+    blankAsMissing,
+    z.coerce
+      .number({ error: 'must be a number' })
+      .int('must be a whole number')
+      .positive('must be greater than 0')
+      .default(fallback),
+  );
+const url = (fallback: string) =>
+  z.preprocess(
+    blankAsMissing,
+    z
+      .string()
+      .default(fallback)
+      .refine((v) => /^https?:\/\/[^/\s]+/i.test(v) && URL.canParse(v), {
+        message: 'must be an http:// or https:// URL',
+      }),
+  );
+
+/** Every environment variable the server reads, with its default. */
+const envSchema = z.object({
+  NODE_ENV: z.preprocess(
+    blankAsMissing,
+    z.enum(['development', 'test', 'production']).default('development'),
+  ),
+  EVALON_PORT: port(8080),
+  EVALON_HOST: str('127.0.0.1'),
+  EVALON_PUBLIC_URL: url('http://127.0.0.1:8080'),
+  EVALON_TRUST_PROXY: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_LOG_LEVEL: z.preprocess(
+    blankAsMissing,
+    z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  ),
+  EVALON_DB_HOST: str('127.0.0.1'),
+  EVALON_DB_PORT: port(3307),
+  EVALON_DB_USER: str('evalon'),
+  EVALON_DB_PASSWORD: str('evalon-local'),
+  EVALON_DB_NAME: str('evalon'),
+  EVALON_DB_POOL_SIZE: positive(10),
+  EVALON_SMTP_HOST: str('127.0.0.1'),
+  EVALON_SMTP_PORT: port(1025),
+  EVALON_SMTP_SECURE: z.preprocess(blankAsMissing, z.stringbool().default(false)),
+  EVALON_SMTP_USER: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_SMTP_PASSWORD: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_MAIL_FROM: str('Evalon <no-reply@evalon.example>'),
+  EVALON_SESSION_SECRET: z.preprocess(
+    blankAsMissing,
+    z.string().min(16, 'must be at least 16 characters').default(developmentSessionSecret),
+  ),
+  EVALON_SESSION_IDLE_MINUTES: positive(8 * 60),
+  EVALON_SESSION_ABSOLUTE_HOURS: positive(7 * 24),
+  EVALON_LOGIN_WINDOW_MINUTES: positive(15),
+  EVALON_LOGIN_MAX_FAILURES_PER_ACCOUNT: positive(5),
+  EVALON_LOGIN_MAX_FAILURES_PER_IP: positive(20),
+  EVALON_GOOGLE_CLIENT_ID: str('evalon-local-client'),
+  EVALON_GOOGLE_CLIENT_SECRET: str('evalon-local-secret'),
+  EVALON_GOOGLE_AUTH_URL: url('http://127.0.0.1:8089/authorize'),
+  EVALON_GOOGLE_TOKEN_URL: url('http://127.0.0.1:8089/token'),
+  EVALON_GOOGLE_USERINFO_URL: url('http://127.0.0.1:8089/userinfo'),
+  EVALON_WEB_DIST: str('dist/web/browser'),
+});
+
+/** Settings of the whole server, read once from the environment. */
+export interface Config {
+  env: 'development' | 'test' | 'production';
+  http: {
+    port: number;
+    host: string;
+    /** Origin and base of every link we send out, e.g. `http://127.0.0.1:8080`. */
+    publicUrl: string;
+    /** Whether the public URL is https (cookies then carry `Secure`). */
+    secureCookies: boolean;
+    /** Express `trust proxy` value (false, a hop count, or a list such as `loopback`). */
+    trustProxy: boolean | number | string;
+  };
+  logLevel: 'fatal' | 'error' | 'warn' | 'info' | 'debug' | 'trace' | 'silent';
+  db: {
+    host: string;
+    port: number;
+    user: string;
+    password: string;
+    database: string;
+    poolSize: number;
+  };
+  smtp: {
+    host: string;
+    port: number;
+    /** Whether to speak TLS from the first byte (port 465 style). */
+    secure: boolean;
+    user?: string;
+    password?: string;
+    from: string;
+  };
+  session: {
+    secret: string;
+    idleTimeoutMs: number;
+    absoluteTimeoutMs: number;
+  };
+  loginLimits: {
+    windowMs: number;
+    maxFailuresPerAccount: number;
+    maxFailuresPerIp: number;
+  };
+  google: {
+    clientId: string;
+    clientSecret: string;
+    authorizationUrl: string;
+    tokenUrl: string;
+    userInfoUrl: string;
+  };
+  /** Absolute path of the built Angular app (may not exist). */
+  webDist: string;
+}
+
+/** Thrown when the environment holds a value the server cannot use; the message lists each one. */
+export class ConfigError extends Error {
+  constructor(readonly problems: string[]) {
+    super(
+      `Evalon cannot start: the configuration is not valid.\n${problems.map((p) => `  - ${p}`).join('\n')}`,
+    );
+    this.name = 'ConfigError';
+  }
+}
+
+function parseTrustProxy(raw: string | undefined, https: boolean): boolean | number | string {
+  // Behind https we expect a reverse proxy on the same machine; plain http means no proxy.
+  if (raw === undefined) return https ? 'loopback' : false;
+  if (/^(true|false)$/i.test(raw)) return raw.toLowerCase() === 'true';
+  if (/^\d+$/.test(raw)) return Number(raw);
+  return raw;
+}
+
+/**
+ * Reads and checks the configuration. Throws {@link ConfigError} naming every bad variable,
+ * so a wrong setting stops the server at start-up rather than at the first request.
+ */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const parsed = envSchema.safeParse(env);
+  if (!parsed.success) {
+    throw new ConfigError(
+      parsed.error.issues.map((issue) => {
+        const name = issue.path.join('.');
+        const value = env[name];
+        return `${name}: ${issue.message}${value === undefined ? '' : ` (got "${value}")`}`;
+      }),
+    );
+  }
+  const e = parsed.data;
+  const problems: string[] = [];
+  if (e.NODE_ENV === 'production' && e.EVALON_SESSION_SECRET === developmentSessionSecret) {
+    problems.push('EVALON_SESSION_SECRET: set a secret of your own in production');
+  }
+  if (problems.length) throw new ConfigError(problems);
+
+  const publicUrl = e.EVALON_PUBLIC_URL.replace(/\/+$/, '');
+  const https = publicUrl.toLowerCase().startsWith('https://');
+  return {
+    env: e.NODE_ENV,
+    http: {
+      port: e.EVALON_PORT,
+      host: e.EVALON_HOST,
+      publicUrl,
+      secureCookies: https,
+      trustProxy: parseTrustProxy(e.EVALON_TRUST_PROXY, https),
+    },
+    logLevel: e.EVALON_LOG_LEVEL,
+    db: {
+      host: e.EVALON_DB_HOST,
+      port: e.EVALON_DB_PORT,
+      user: e.EVALON_DB_USER,
+      password: e.EVALON_DB_PASSWORD,
+      database: e.EVALON_DB_NAME,
+      poolSize: e.EVALON_DB_POOL_SIZE,
+    },
+    smtp: {
+      host: e.EVALON_SMTP_HOST,
+      port: e.EVALON_SMTP_PORT,
+      secure: e.EVALON_SMTP_SECURE,
+      user: e.EVALON_SMTP_USER,
+      password: e.EVALON_SMTP_PASSWORD,
+      from: e.EVALON_MAIL_FROM,
+    },
+    session: {
+      secret: e.EVALON_SESSION_SECRET,
+      idleTimeoutMs: e.EVALON_SESSION_IDLE_MINUTES * 60_000,
+      absoluteTimeoutMs: e.EVALON_SESSION_ABSOLUTE_HOURS * 3_600_000,
+    },
+    loginLimits: {
+      windowMs: e.EVALON_LOGIN_WINDOW_MINUTES * 60_000,
+      maxFailuresPerAccount: e.EVALON_LOGIN_MAX_FAILURES_PER_ACCOUNT,
+      maxFailuresPerIp: e.EVALON_LOGIN_MAX_FAILURES_PER_IP,
+    },
+    google: {
+      clientId: e.EVALON_GOOGLE_CLIENT_ID,
+      clientSecret: e.EVALON_GOOGLE_CLIENT_SECRET,
+      authorizationUrl: e.EVALON_GOOGLE_AUTH_URL,
+      tokenUrl: e.EVALON_GOOGLE_TOKEN_URL,
+      userInfoUrl: e.EVALON_GOOGLE_USERINFO_URL,
+    },
+    webDist: path.resolve(process.cwd(), e.EVALON_WEB_DIST),
+  };
+}

@@ -1,0 +1,25 @@
+import type { EntitySchemaColumnOptions, ValueTransformer } from 'typeorm';
+
+/** mysql2 returns DECIMAL as a string to keep precision; coordinates are fine as numbers. */
+export const decimalAsNumber: ValueTransformer = {
+  to: (value: number | null | undefined) => value,
+  from: (value: string | null) => (value === null || value === undefined ? value : Number(value)),
+};
+
+/** Auto-increment integer primary key. */
+export const idColumn: EntitySchemaColumnOptions = {
+  type: 'int',
+  unsigned: true,
+  primary: true,
+  generated: 'increment',
+};
+
+/** A UTC instant with millisecond precision (the connection runs with `timezone: 'Z'`). */
+export function instantColumn(name: string, nullable = false): EntitySchemaColumnOptions {
+  return { type: 'datetime', precision: 3, name, nullable };
+}
+
+/** Foreign-key integer column. */
+export function refColumn(name: string, nullable = false): EntitySchemaColumnOptions {
+  return { type: 'int', unsigned: true, name, nullable };
+}

@@ -1,0 +1,140 @@
+import type { DataSource } from 'typeorm';
+import { insertAuditEvent } from '../audit/data-access/audit-repository';
+import { appTables } from '../database/data-source';
+import {
+  insertMembership,
+  insertToken,
+  insertUser,
+  updateUser,
+} from '../identity/data-access/identity-repository';
+import { hashPassword } from '../identity/domain/passwords';
+import { invitationLifetimeMs, newOneTimeToken } from '../identity/domain/tokens';
+import {
+  insertOrganisation,
+  insertSite,
+} from '../organisations/data-access/organisation-repository';
+import { demoOrganisations, demoPassword } from './demo-data';
+
+/** Whether the database holds no organisations and no people yet. */
+export async function isDatabaseEmpty(dataSource: DataSource): Promise<boolean> {
+  const rows: { n: number | string }[] = await dataSource.query(
+    'SELECT (SELECT COUNT(*) FROM organisations) + (SELECT COUNT(*) FROM users) AS n',
+  );
+  return Number(rows[0]?.n ?? 0) === 0;
+}
+
+/** Empties every application table (not the migrations record). */
+export async function truncateAppTables(dataSource: DataSource): Promise<void> {
+  const runner = dataSource.createQueryRunner();
+  await runner.connect();
+  try {
+    // Foreign-key checks are per connection, so everything runs on this one.
+    await runner.query('SET FOREIGN_KEY_CHECKS = 0');
+    for (const table of appTables) await runner.query(`TRUNCATE TABLE \`${table}\``);
+  } finally {
+    await runner.query('SET FOREIGN_KEY_CHECKS = 1').catch(() => undefined);
+    await runner.release();
+  }
+}
+
+/** What was loaded, for the CLI to report. */
+export interface DemoSummary {
+  organisations: number;
+  sites: number;
+  people: number;
+}
+
+/**
+ * Loads the invented demo scenario in one transaction: organisations with campuses and depots,
+ * people with roles (password `evalon-demo`), one pending invitation and one deactivated
+ * clinician so the members pages look lived-in. Refuses a database that is not empty.
+ */
+export async function loadDemoData(dataSource: DataSource, now = new Date()): Promise<DemoSummary> {
+  if (!(await isDatabaseEmpty(dataSource))) {
+    throw new Error(
+      'The database already holds organisations or people; demo data loads only into an empty one.',
+    );
+  }
+  const passwordHash = await hashPassword(demoPassword);
+  const summary: DemoSummary = { organisations: 0, sites: 0, people: 0 };
+  await dataSource.transaction(async (m) => {
+    for (const org of demoOrganisations) {
+      const organisationId = await insertOrganisation(
+        m,
+        { name: org.name, kind: org.kind, country: org.country },
+        now,
+      );
+      summary.organisations++;
+      for (const site of org.sites) {
+        await insertSite(m, { organisationId, ...site }, now);
+        summary.sites++;
+      }
+      let inviterId: number | null = null;
+      for (const person of org.people) {
+        const userId = await insertUser(
+          m,
+          {
+            email: person.email,
+            name: person.name,
+            passwordHash: person.state === 'pending' ? null : passwordHash,
+            active: person.state !== 'deactivated',
+            timeZone: person.timeZone,
+          },
+          now,
+        );
+        summary.people++;
+        const membershipId = await insertMembership(
+          m,
+          { userId, organisationId, role: person.role },
+          now,
+        );
+        if (person.state === 'active') inviterId ??= userId;
+        if (person.state === 'pending') {
+          // Nobody knows this token; a manager can send a fresh link from the members page.
+          const { tokenHash } = newOneTimeToken();
+          await insertToken(
+            m,
+            {
+              userId,
+              purpose: 'invitation',
+              tokenHash,
+              organisationId,
+              createdByUserId: inviterId,
+              expiresAt: new Date(now.getTime() + invitationLifetimeMs),
+            },
+            now,
+          );
+          await insertAuditEvent(m, {
+            at: now,
+            actorUserId: inviterId,
+            organisationId,
+            action: 'member.invited',
+            subject: `membership:${membershipId}`,
+            detail: { email: person.email, role: person.role, userId, newAccount: true },
+          });
+        }
+        if (person.state === 'deactivated') {
+          const lastSeen = new Date(now.getTime() - 40 * 24 * 3_600_000);
+          await updateUser(m, userId, { lastSignInAt: lastSeen }, now);
+          await insertAuditEvent(m, {
+            at: now,
+            actorUserId: inviterId,
+            organisationId,
+            action: 'member.deactivated',
+            subject: `membership:${membershipId}`,
+            detail: { userId, sessionsEnded: 0 },
+          });
+        }
+      }
+    }
+    await insertAuditEvent(m, {
+      at: now,
+      actorUserId: null,
+      organisationId: null,
+      action: 'demo.loaded',
+      subject: 'demo data',
+      detail: { ...summary },
+    });
+  });
+  return summary;
+}

@@ -1,0 +1,147 @@
+import type { Request, RequestHandler, Response } from 'express';
+import session from 'express-session';
+import createMySQLStore from 'express-mysql-session';
+import type { DataSource } from 'typeorm';
+import type { Config } from '../config';
+import { toAuthContext } from '../identity/domain/auth-context';
+import { loadSessionUser } from '../identity/data-access/identity-repository';
+import { csrfCookieName, newCsrfToken, writeCsrfCookie } from './csrf';
+import { AppError } from './errors';
+
+/** Name of the session cookie. */
+export const sessionCookieName = 'evalon.sid';
+
+/**
+ * express-session backed by the `sessions` table (created by a migration), sharing TypeORM's
+ * connection pool. The cookie lives `idleTimeoutMs` and is renewed on every response
+ * (`rolling`), which makes that the idle timeout; the store drops rows past their expiry.
+ * Expired rows are swept by {@link sweepExpiredSessions}, not by a store timer.
+ */
+export function createSessionMiddleware(config: Config, dataSource: DataSource): RequestHandler {
+  const MySQLStore = createMySQLStore(session);
+  const store = new MySQLStore(
+    {
+      createDatabaseTable: false,
+      clearExpired: false,
+      expiration: config.session.idleTimeoutMs,
+      endConnectionOnClose: false,
+      schema: { tableName: 'sessions' },
+    },
+    // TypeORM's mysql2 pool (callback API), which the store knows how to use.
+    (dataSource.driver as unknown as { pool: unknown }).pool,
+  );
+  return session({
+    name: sessionCookieName,
+    secret: config.session.secret,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: {
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: config.http.secureCookies,
+      maxAge: config.session.idleTimeoutMs,
+      path: '/',
+    },
+  });
+}
+
+/** Deletes session rows past their expiry; returns how many went. */
+export async function sweepExpiredSessions(dataSource: DataSource): Promise<number> {
+  const result: { affectedRows?: number } = await dataSource.query(
+    'DELETE FROM sessions WHERE expires < UNIX_TIMESTAMP()',
+  );
+  return result.affectedRows ?? 0;
+}
+
+function promisify(fn: (cb: (err?: unknown) => void) => void): Promise<void> {
+  return new Promise((resolve, reject) => fn((err) => (err ? reject(err) : resolve())));
+}
+
+/**
+ * Starts a signed-in session: a new session id (so an id planted before sign-in is worthless),
+ * the user and sign-in time for the absolute timeout, and a fresh CSRF token and cookie.
+ */
+export async function startSignedInSession(
+  req: Request,
+  res: Response,
+  userId: number,
+  secureCookies: boolean,
+): Promise<void> {
+  await promisify((cb) => req.session.regenerate(cb));
+  req.session.userId = userId;
+  req.session.authenticatedAt = Date.now();
+  const token = newCsrfToken();
+  req.session.csrfToken = token;
+  await promisify((cb) => req.session.save(cb));
+  writeCsrfCookie(res, token, secureCookies);
+}
+
+/** Ends the session in the store and tells the browser to forget both cookies. */
+export async function endSession(
+  req: Request,
+  res: Response,
+  secureCookies: boolean,
+): Promise<void> {
+  if (req.session) await promisify((cb) => req.session.destroy(cb));
+  const options = { path: '/', sameSite: 'lax' as const, secure: secureCookies };
+  res.clearCookie(sessionCookieName, { ...options, httpOnly: true });
+  res.clearCookie(csrfCookieName, options);
+}
+
+/** Why a session was ended while loading it, kept for the access check to explain a 401. */
+export interface EndedSession {
+  code: 'session_expired' | 'account_deactivated' | 'not_signed_in';
+  message: string;
+}
+
+/**
+ * Loads the signed-in person on every API request from the database, so a deactivation or a
+ * role change takes effect at once. Sessions past the absolute timeout, or of people who have
+ * been deactivated, are ended; the request goes on as anonymous and a protected route answers
+ * 401 with the reason (see `access`), while public routes such as sign-in still work.
+ */
+export function loadSignedInUser(config: Config, dataSource: DataSource): RequestHandler {
+  return async (req, res, next) => {
+    const userId = req.session?.userId;
+    if (userId === undefined) return next();
+    const startedAt = req.session.authenticatedAt ?? 0;
+    let ended: EndedSession | null = null;
+    if (Date.now() - startedAt > config.session.absoluteTimeoutMs) {
+      ended = {
+        code: 'session_expired',
+        message: 'Your session has ended. Sign in again to continue.',
+      };
+    } else {
+      const loaded = await loadSessionUser(dataSource.manager, userId);
+      if (loaded?.active) {
+        req.auth = toAuthContext(loaded.user);
+        return next();
+      }
+      ended = loaded
+        ? {
+            code: 'account_deactivated',
+            message: 'This account has been deactivated. Ask your organisation’s administrator.',
+          }
+        : { code: 'not_signed_in', message: 'Sign in to continue.' };
+    }
+    // Regenerate rather than destroy: the old row goes, and later middleware (CSRF, OAuth
+    // state, sign-in) still finds an empty session to work with.
+    await promisify((cb) => req.session.regenerate(cb));
+    res.clearCookie(sessionCookieName, {
+      path: '/',
+      httpOnly: true,
+      sameSite: 'lax',
+      secure: config.http.secureCookies,
+    });
+    res.locals.endedSession = ended;
+    next();
+  };
+}
+
+/** The 401 to answer when a protected route finds no signed-in person. */
+export function notSignedInError(res: Response): AppError {
+  const ended = res.locals.endedSession as EndedSession | undefined;
+  return ended ? AppError.unauthorized(ended.code, ended.message) : AppError.unauthorized();
+}

@@ -1,0 +1,291 @@
+import type { EntityManager } from 'typeorm';
+import type { Member, Membership, Role, SessionUser } from '@evalon/contracts';
+import type { ManagingCandidate } from '../domain/policy';
+import {
+  MembershipEntity,
+  UserEntity,
+  UserTokenEntity,
+  type MembershipRow,
+  type TokenPurpose,
+  type UserRow,
+  type UserTokenRow,
+} from './entities';
+
+/** Plain copy of a user row (no TypeORM instance leaves this module). */
+export type User = UserRow;
+
+/** Finds a user by (already normalised) e-mail; `lock` takes a row lock for the transaction. */
+export async function findUserByEmail(
+  m: EntityManager,
+  email: string,
+  lock = false,
+): Promise<User | null> {
+  const qb = m.createQueryBuilder(UserEntity, 'u').where('u.email = :email', { email });
+  if (lock) qb.setLock('pessimistic_write');
+  return (await qb.getOne()) ?? null;
+}
+
+/** Finds a user by id; `lock` takes a row lock for the transaction. */
+export async function findUserById(
+  m: EntityManager,
+  id: number,
+  lock = false,
+): Promise<User | null> {
+  const qb = m.createQueryBuilder(UserEntity, 'u').where('u.id = :id', { id });
+  if (lock) qb.setLock('pessimistic_write');
+  return (await qb.getOne()) ?? null;
+}
+
+/** Finds a user by the Google `sub` linked to them. */
+export async function findUserByGoogleSubject(
+  m: EntityManager,
+  subject: string,
+): Promise<User | null> {
+  return (await m.findOne(UserEntity, { where: { googleSubject: subject } })) ?? null;
+}
+
+/** Inserts a user and returns its id. */
+export async function insertUser(
+  m: EntityManager,
+  user: Pick<User, 'email' | 'name' | 'passwordHash' | 'active' | 'timeZone'>,
+  now: Date,
+): Promise<number> {
+  const result = await m.insert(UserEntity, {
+    ...user,
+    googleSubject: null,
+    lastSignInAt: null,
+    createdAt: now,
+    updatedAt: now,
+  });
+  return Number(result.identifiers[0]?.id);
+}
+
+/** Updates some columns of a user (always bumps `updated_at`). */
+export async function updateUser(
+  m: EntityManager,
+  id: number,
+  changes: Partial<
+    Pick<User, 'name' | 'passwordHash' | 'active' | 'timeZone' | 'googleSubject' | 'lastSignInAt'>
+  >,
+  now: Date,
+): Promise<void> {
+  await m.update(UserEntity, { id }, { ...changes, updatedAt: now });
+}
+
+interface MembershipJoinRow {
+  organisationId: number;
+  organisationName: string;
+  organisationKind: Membership['organisationKind'];
+  role: Role;
+}
+
+/** The person with memberships as the session sees them, or null when no such user exists. */
+export async function loadSessionUser(
+  m: EntityManager,
+  userId: number,
+): Promise<{ user: SessionUser; active: boolean } | null> {
+  const user = await findUserById(m, userId);
+  if (!user) return null;
+  const rows: MembershipJoinRow[] = await m.query(
+    `SELECT o.id AS organisationId, o.name AS organisationName, o.kind AS organisationKind, ms.role AS role
+       FROM memberships ms JOIN organisations o ON o.id = ms.organisation_id
+      WHERE ms.user_id = ?
+      ORDER BY o.name, ms.role`,
+    [userId],
+  );
+  return {
+    active: user.active,
+    user: {
+      id: user.id,
+      email: user.email,
+      name: user.name,
+      timeZone: user.timeZone,
+      memberships: rows.map((r) => ({
+        organisationId: Number(r.organisationId),
+        organisationName: r.organisationName,
+        organisationKind: r.organisationKind,
+        role: r.role,
+      })),
+    },
+  };
+}
+
+/** Inserts a membership and returns its id. */
+export async function insertMembership(
+  m: EntityManager,
+  membership: Pick<MembershipRow, 'userId' | 'organisationId' | 'role'>,
+  now: Date,
+): Promise<number> {
+  const result = await m.insert(MembershipEntity, { ...membership, createdAt: now });
+  return Number(result.identifiers[0]?.id);
+}
+
+/** One membership of an organisation, or null. */
+export async function findMembership(
+  m: EntityManager,
+  organisationId: number,
+  membershipId: number,
+): Promise<MembershipRow | null> {
+  return (
+    (await m.findOne(MembershipEntity, { where: { id: membershipId, organisationId } })) ?? null
+  );
+}
+
+/** Whether the user already holds the role in the organisation. */
+export async function hasMembership(
+  m: EntityManager,
+  userId: number,
+  organisationId: number,
+  role: Role,
+): Promise<boolean> {
+  return (await m.count(MembershipEntity, { where: { userId, organisationId, role } })) > 0;
+}
+
+/** Changes a membership's role. */
+export async function updateMembershipRole(
+  m: EntityManager,
+  membershipId: number,
+  role: Role,
+): Promise<void> {
+  await m.update(MembershipEntity, { id: membershipId }, { role });
+}
+
+/** Organisations the user belongs to (distinct ids). */
+export async function organisationIdsOfUser(m: EntityManager, userId: number): Promise<number[]> {
+  const rows: { organisationId: number }[] = await m.query(
+    'SELECT DISTINCT organisation_id AS organisationId FROM memberships WHERE user_id = ?',
+    [userId],
+  );
+  return rows.map((r) => Number(r.organisationId));
+}
+
+interface MemberQueryRow {
+  membershipId: number;
+  userId: number;
+  email: string;
+  name: string;
+  role: Role;
+  active: number;
+  passwordHash: string | null;
+  lastSignInAt: Date | null;
+}
+
+const memberSelect = `
+  SELECT ms.id AS membershipId, u.id AS userId, u.email AS email, u.name AS name, ms.role AS role,
+         u.active AS active, u.password_hash AS passwordHash, u.last_sign_in_at AS lastSignInAt
+    FROM memberships ms JOIN users u ON u.id = ms.user_id`;
+
+function toMember(r: MemberQueryRow): Member {
+  return {
+    membershipId: Number(r.membershipId),
+    userId: Number(r.userId),
+    email: r.email,
+    name: r.name,
+    role: r.role,
+    active: Boolean(r.active),
+    // Pending: invited but has neither set a password nor ever signed in (e.g. with Google).
+    pending: r.passwordHash === null && r.lastSignInAt === null,
+    lastSignInAt: r.lastSignInAt ? new Date(r.lastSignInAt).toISOString() : null,
+  };
+}
+
+/** Members of an organisation, by name. */
+export async function listMembers(m: EntityManager, organisationId: number): Promise<Member[]> {
+  const rows: MemberQueryRow[] = await m.query(
+    `${memberSelect} WHERE ms.organisation_id = ? ORDER BY u.name, u.email, ms.role`,
+    [organisationId],
+  );
+  return rows.map(toMember);
+}
+
+/** One member by membership id, or null. */
+export async function getMember(
+  m: EntityManager,
+  organisationId: number,
+  membershipId: number,
+): Promise<Member | null> {
+  const rows: MemberQueryRow[] = await m.query(
+    `${memberSelect} WHERE ms.organisation_id = ? AND ms.id = ?`,
+    [organisationId, membershipId],
+  );
+  return rows[0] ? toMember(rows[0]) : null;
+}
+
+/** Memberships of an organisation with the holder's active flag, locked for the transaction. */
+export async function lockManagingCandidates(
+  m: EntityManager,
+  organisationId: number,
+): Promise<ManagingCandidate[]> {
+  const rows: { membershipId: number; userId: number; role: Role; active: number }[] =
+    await m.query(
+      `SELECT ms.id AS membershipId, ms.user_id AS userId, ms.role AS role, u.active AS active
+       FROM memberships ms JOIN users u ON u.id = ms.user_id
+      WHERE ms.organisation_id = ?
+      ORDER BY ms.id
+      FOR UPDATE`,
+      [organisationId],
+    );
+  return rows.map((r) => ({
+    membershipId: Number(r.membershipId),
+    userId: Number(r.userId),
+    role: r.role,
+    active: Boolean(r.active),
+  }));
+}
+
+/** Stores a one-time token (its hash only). */
+export async function insertToken(
+  m: EntityManager,
+  token: Pick<
+    UserTokenRow,
+    'userId' | 'purpose' | 'tokenHash' | 'organisationId' | 'createdByUserId' | 'expiresAt'
+  >,
+  now: Date,
+): Promise<void> {
+  await m.insert(UserTokenEntity, { ...token, usedAt: null, createdAt: now });
+}
+
+/** The token row with that hash and purpose, locked for the transaction. */
+export async function lockTokenByHash(
+  m: EntityManager,
+  tokenHash: string,
+  purpose: TokenPurpose,
+): Promise<UserTokenRow | null> {
+  return (
+    (await m
+      .createQueryBuilder(UserTokenEntity, 't')
+      .where('t.tokenHash = :tokenHash AND t.purpose = :purpose', { tokenHash, purpose })
+      .setLock('pessimistic_write')
+      .getOne()) ?? null
+  );
+}
+
+/** Marks every still-open token of the user for `purpose` as used (one link at a time). */
+export async function useOpenTokens(
+  m: EntityManager,
+  userId: number,
+  purpose: TokenPurpose,
+  now: Date,
+): Promise<void> {
+  await m
+    .createQueryBuilder()
+    .update(UserTokenEntity)
+    .set({ usedAt: now })
+    .where('userId = :userId AND purpose = :purpose AND usedAt IS NULL', { userId, purpose })
+    .execute();
+}
+
+/** Deletes the user's sessions (all, or all but `exceptSessionId`); returns how many. */
+export async function deleteSessionsOfUser(
+  m: EntityManager,
+  userId: number,
+  exceptSessionId?: string,
+): Promise<number> {
+  const result: { affectedRows?: number } = exceptSessionId
+    ? await m.query('DELETE FROM sessions WHERE user_id = ? AND session_id <> ?', [
+        userId,
+        exceptSessionId,
+      ])
+    : await m.query('DELETE FROM sessions WHERE user_id = ?', [userId]);
+  return result.affectedRows ?? 0;
+}

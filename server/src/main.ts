@@ -1,0 +1,92 @@
+// Starts the Evalon server: reads the configuration, connects to MariaDB and listens.
+// Migrations are not run here; the start script (and `npm run db:migrate`) runs them first.
+import { createApp } from './app';
+import { ConfigError, loadConfig, type Config } from './config';
+import { createDataSource } from './database/data-source';
+import { sweepExpiredSessions } from './http/session';
+import { createLogger } from './logger';
+import { SmtpMailer } from './notifications/mailer';
+
+const sessionSweepIntervalMs = 15 * 60_000;
+
+function fail(message: string): never {
+  process.stderr.write(`${message}\n`);
+  process.exit(1);
+}
+
+async function main(): Promise<void> {
+  let config: Config;
+  try {
+    config = loadConfig();
+  } catch (error) {
+    if (error instanceof ConfigError) fail(error.message);
+    throw error;
+  }
+  const logger = createLogger(config.logLevel);
+  const dataSource = createDataSource(config.db);
+  try {
+    await dataSource.initialize();
+  } catch (error) {
+    fail(
+      `Evalon cannot reach MariaDB at ${config.db.host}:${config.db.port} (database "${config.db.database}", ` +
+        `user "${config.db.user}"): ${(error as Error).message}\n` +
+        'Start it with `npm start` (which also migrates), or check the EVALON_DB_* variables.',
+    );
+  }
+  if (await dataSource.showMigrations()) {
+    logger.warn('the database has migrations that have not run: run `npm run db:migrate`');
+  }
+
+  const mailer = new SmtpMailer(config.smtp);
+  const app = createApp({ config, dataSource, mailer, logger });
+  const server = app.listen(config.http.port, config.http.host);
+  server.on('listening', () => {
+    const address = server.address();
+    const port = typeof address === 'object' && address ? address.port : config.http.port;
+    const url = `http://${config.http.host}:${port}`;
+    logger.info({ url, publicUrl: config.http.publicUrl }, `Evalon server listening on ${url}`);
+  });
+  server.on('error', (error: NodeJS.ErrnoException) => {
+    if (error.code === 'EADDRINUSE') {
+      fail(
+        `Port ${config.http.port} on ${config.http.host} is already in use. ` +
+          'Stop the other program or choose another port with EVALON_PORT.',
+      );
+    }
+    fail(`Evalon could not listen: ${error.message}`);
+  });
+
+  const sweeper = setInterval(() => {
+    sweepExpiredSessions(dataSource).catch((err: unknown) =>
+      logger.warn({ err }, 'session sweep failed'),
+    );
+  }, sessionSweepIntervalMs);
+  sweeper.unref();
+
+  let stopping = false;
+  const stop = (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    logger.info({ signal }, 'Evalon server stopping');
+    clearInterval(sweeper);
+    server.close(() => {
+      mailer.close();
+      dataSource
+        .destroy()
+        .catch(() => undefined)
+        .finally(() => process.exit(0));
+    });
+    server.closeIdleConnections();
+    // Busy keep-alive connections can hold close() open; do not wait for ever.
+    setTimeout(() => process.exit(0), 5_000).unref();
+  };
+  process.on('SIGINT', () => stop('SIGINT'));
+  process.on('SIGTERM', () => stop('SIGTERM'));
+}
+
+main().catch((error: unknown) => {
+  process.stderr.write(
+    `Evalon server failed to start: ${(error as Error).stack ?? String(error)}\n`,
+  );
+  process.exit(1);
+});

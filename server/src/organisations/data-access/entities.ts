@@ -1,0 +1,69 @@
+import { EntitySchema } from 'typeorm';
+import type { OrganisationKind } from '@evalon/contracts';
+import { decimalAsNumber, idColumn, instantColumn, refColumn } from '../../database/columns';
+
+/** A row of `organisations`. */
+export interface OrganisationRow {
+  id: number;
+  name: string;
+  kind: OrganisationKind;
+  /** ISO 3166-1 alpha-2. */
+  country: string;
+  createdAt: Date;
+}
+
+export const OrganisationEntity = new EntitySchema<OrganisationRow>({
+  name: 'Organisation',
+  tableName: 'organisations',
+  columns: {
+    id: idColumn,
+    name: { type: 'varchar', length: 200 },
+    kind: { type: 'varchar', length: 32 },
+    country: { type: 'char', length: 2 },
+    createdAt: instantColumn('created_at'),
+  },
+});
+
+/** A row of `sites`: a hospital campus or a lender depot. */
+export interface SiteRow {
+  id: number;
+  organisationId: number;
+  kind: 'campus' | 'depot';
+  name: string;
+  addressLine: string;
+  city: string;
+  postalCode: string | null;
+  region: string | null;
+  country: string;
+  latitude: number;
+  longitude: number;
+  /** IANA zone, e.g. `America/Chicago`. */
+  timeZone: string;
+  /** Free text shown to the other side, e.g. `Mon–Fri 07:00–15:30`. */
+  receivingHours: string | null;
+  /** Depot shipping cut-off `HH:MM` in the site's zone; null for campuses. */
+  cutoffTime: string | null;
+  createdAt: Date;
+}
+
+export const SiteEntity = new EntitySchema<SiteRow>({
+  name: 'Site',
+  tableName: 'sites',
+  columns: {
+    id: idColumn,
+    organisationId: refColumn('organisation_id'),
+    kind: { type: 'varchar', length: 16 },
+    name: { type: 'varchar', length: 200 },
+    addressLine: { type: 'varchar', length: 300, name: 'address_line' },
+    city: { type: 'varchar', length: 120 },
+    postalCode: { type: 'varchar', length: 20, name: 'postal_code', nullable: true },
+    region: { type: 'varchar', length: 120, nullable: true },
+    country: { type: 'char', length: 2 },
+    latitude: { type: 'decimal', precision: 9, scale: 6, transformer: decimalAsNumber },
+    longitude: { type: 'decimal', precision: 9, scale: 6, transformer: decimalAsNumber },
+    timeZone: { type: 'varchar', length: 64, name: 'time_zone' },
+    receivingHours: { type: 'varchar', length: 200, name: 'receiving_hours', nullable: true },
+    cutoffTime: { type: 'char', length: 5, name: 'cutoff_time', nullable: true },
+    createdAt: instantColumn('created_at'),
+  },
+});

@@ -1,0 +1,178 @@
+import mysql from 'mysql2/promise';
+import type { DataSource } from 'typeorm';
+import { isTimeZone } from '@evalon/contracts';
+import { createApp } from '../src/app';
+import { loadConfig, type Config } from '../src/config';
+import { createDataSource } from '../src/database/data-source';
+import { demoPassword } from '../src/demo/demo-data';
+import { isDatabaseEmpty, loadDemoData, truncateAppTables } from '../src/demo/load-demo-data';
+import { createLogger } from '../src/logger';
+import { anonymousClient, signedInClient } from './helpers/http';
+import { RecordingMailer } from './helpers/recording-mailer';
+import { testDatabasePrefix } from './test-database';
+
+// The demo loader needs an empty database, so this file gets one of its own.
+const database = `${testDatabasePrefix}_demo_w${process.env.JEST_WORKER_ID ?? '1'}`;
+let config: Config;
+let dataSource: DataSource;
+
+async function adminQuery(sql: string): Promise<void> {
+  const c = await mysql.createConnection({
+    host: config.db.host,
+    port: config.db.port,
+    user: config.db.user,
+    password: config.db.password,
+  });
+  try {
+    await c.query(sql);
+  } finally {
+    await c.end();
+  }
+}
+
+beforeAll(async () => {
+  config = loadConfig({ ...process.env, EVALON_DB_NAME: database });
+  await adminQuery(`DROP DATABASE IF EXISTS \`${database}\``);
+  await adminQuery(
+    `CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+  );
+  dataSource = createDataSource(config.db);
+  await dataSource.initialize();
+  await dataSource.runMigrations();
+}, 30_000);
+afterAll(async () => {
+  await dataSource?.destroy();
+  await adminQuery(`DROP DATABASE IF EXISTS \`${database}\``);
+});
+
+describe('demo data', () => {
+  it('loads into an empty database only', async () => {
+    expect(await isDatabaseEmpty(dataSource)).toBe(true);
+    const summary = await loadDemoData(dataSource);
+    expect(summary).toEqual({ organisations: 5, sites: 6, people: 11 });
+    const [counts] = await dataSource.query(
+      'SELECT (SELECT COUNT(*) FROM organisations) AS o, (SELECT COUNT(*) FROM sites) AS s, (SELECT COUNT(*) FROM users) AS u',
+    );
+    expect([Number(counts.o), Number(counts.s), Number(counts.u)]).toEqual([5, 6, 11]);
+    expect(await isDatabaseEmpty(dataSource)).toBe(false);
+    await expect(loadDemoData(dataSource)).rejects.toThrow(/empty/);
+  });
+
+  it('has the accounts the brief names, in the right kinds of organisation', async () => {
+    const rows: { email: string; role: string; kind: string; organisation: string }[] =
+      await dataSource.query(
+        `SELECT u.email, m.role, o.kind, o.name AS organisation
+         FROM users u JOIN memberships m ON m.user_id = u.id JOIN organisations o ON o.id = m.organisation_id`,
+      );
+    const by = new Map(rows.map((r) => [r.email, r]));
+    expect(by.get('admin@evalon.example')).toMatchObject({
+      role: 'admin',
+      kind: 'platform',
+      organisation: 'Evalon Marketplace',
+    });
+    expect(by.get('buyer@harbourview.example')).toMatchObject({
+      role: 'buyer',
+      kind: 'hospital',
+      organisation: 'Harbourview Health',
+    });
+    expect(by.get('clinician@harbourview.example')).toMatchObject({
+      role: 'clinician',
+      kind: 'hospital',
+    });
+    expect(by.get('buyer@rheinau.example')).toMatchObject({
+      role: 'buyer',
+      organisation: 'Klinikum Rheinau',
+    });
+    expect(by.get('fleet@kestrel.example')).toMatchObject({
+      role: 'fleet_manager',
+      kind: 'lender',
+      organisation: 'Kestrel Surgical',
+    });
+    expect(by.get('coordinator@kestrel.example')).toMatchObject({
+      role: 'coordinator',
+      kind: 'lender',
+    });
+    expect(by.get('proctor@proctors.example')).toMatchObject({
+      role: 'proctor',
+      kind: 'proctor_practice',
+    });
+    // Invented people only: every address uses a reserved .example domain (RFC 2606).
+    expect(rows.every((r) => r.email.endsWith('.example'))).toBe(true);
+  });
+
+  it('gives sites real IANA zones, plausible coordinates and depot cut-offs', async () => {
+    const sites: {
+      name: string;
+      kind: string;
+      time_zone: string;
+      latitude: string;
+      longitude: string;
+      cutoff_time: string | null;
+      org: string;
+    }[] = await dataSource.query(
+      'SELECT s.name, s.kind, s.time_zone, s.latitude, s.longitude, s.cutoff_time, o.name AS org FROM sites s JOIN organisations o ON o.id = s.organisation_id',
+    );
+    expect(sites.every((s) => isTimeZone(s.time_zone))).toBe(true);
+    const harbourview = sites
+      .filter((s) => s.org === 'Harbourview Health')
+      .map((s) => s.time_zone)
+      .sort();
+    expect(harbourview).toEqual(['America/Chicago', 'America/New_York']);
+    const depots = sites.filter((s) => s.kind === 'depot');
+    expect(depots.map((s) => s.time_zone).sort()).toEqual([
+      'America/Los_Angeles',
+      'America/New_York',
+      'Europe/Berlin',
+    ]);
+    expect(depots.every((s) => /^\d{2}:\d{2}$/.test(s.cutoff_time ?? ''))).toBe(true);
+    // Boston-like campus: north-eastern US (roughly 40–45°N, 67–75°W).
+    const boston = sites.find((s) => s.name === 'Harbourview Medical Center')!;
+    expect(Number(boston.latitude)).toBeGreaterThan(40);
+    expect(Number(boston.latitude)).toBeLessThan(45);
+    expect(Number(boston.longitude)).toBeGreaterThan(-75);
+    expect(Number(boston.longitude)).toBeLessThan(-67);
+  });
+
+  it('demo accounts sign in with the demo password; the deactivated and pending ones do not', async () => {
+    const app = createApp({
+      config,
+      dataSource,
+      mailer: new RecordingMailer(),
+      logger: createLogger('silent'),
+    });
+    const me = await signedInClient(app, 'buyer@harbourview.example', demoPassword);
+    const members = await me.agent.get('/api/auth/me').expect(200);
+    const harbourviewId = members.body.user.memberships[0].organisationId;
+    const list = await me.agent.get(`/api/organisations/${harbourviewId}/members`).expect(200);
+    const states = (list.body.items as { email: string; active: boolean; pending: boolean }[]).map(
+      (m) => [m.email, m.active, m.pending],
+    );
+    expect(states).toEqual(
+      expect.arrayContaining([
+        ['or.nurse@harbourview.example', true, true],
+        ['former.clinician@harbourview.example', false, false],
+      ]),
+    );
+    const client = await anonymousClient(app);
+    const deactivated = await client.agent
+      .post('/api/auth/login')
+      .set('X-XSRF-TOKEN', client.csrf)
+      .send({ email: 'former.clinician@harbourview.example', password: demoPassword })
+      .expect(401);
+    expect(deactivated.body.error.code).toBe('account_deactivated');
+    await client.agent
+      .post('/api/auth/login')
+      .set('X-XSRF-TOKEN', client.csrf)
+      .send({ email: 'or.nurse@harbourview.example', password: demoPassword })
+      .expect(401);
+  });
+
+  it('reset empties every application table', async () => {
+    await truncateAppTables(dataSource);
+    expect(await isDatabaseEmpty(dataSource)).toBe(true);
+    const [sessions] = await dataSource.query('SELECT COUNT(*) AS n FROM sessions');
+    expect(Number(sessions.n)).toBe(0);
+    const [migrations] = await dataSource.query('SELECT COUNT(*) AS n FROM migrations');
+    expect(Number(migrations.n)).toBeGreaterThan(0);
+  });
+});
