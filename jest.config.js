@@ -33,6 +33,19 @@ module.exports = {
       setupFiles: ['<rootDir>/server/test/env.ts'],
     },
     {
+      // Cross-cutting suites (outages, crashes, duplicate deliveries) against real processes.
+      displayName: 'reliability',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/tests/reliability/**/*.test.ts'],
+      transform: tsTransform,
+      moduleNameMapper,
+      transformIgnorePatterns,
+      globalSetup: '<rootDir>/server/test/global-setup.ts',
+      setupFiles: ['<rootDir>/server/test/env.ts'],
+      testTimeout: 120_000,
+    },
+    {
       displayName: 'infra',
       rootDir: __dirname,
       testEnvironment: 'node',
