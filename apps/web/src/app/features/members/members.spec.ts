@@ -1,0 +1,302 @@
+import { HarnessLoader } from '@angular/cdk/testing';
+import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
+import { provideHttpClient, withInterceptors } from '@angular/common/http';
+import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { ComponentFixture, TestBed } from '@angular/core/testing';
+import { MatButtonHarness } from '@angular/material/button/testing';
+import { MATERIAL_ANIMATIONS } from '@angular/material/core';
+import { MatDialogHarness } from '@angular/material/dialog/testing';
+import { MatFormFieldHarness } from '@angular/material/form-field/testing';
+import { MatInputHarness } from '@angular/material/input/testing';
+import { MatMenuHarness } from '@angular/material/menu/testing';
+import { MatProgressBarHarness } from '@angular/material/progress-bar/testing';
+import { MatSelectHarness } from '@angular/material/select/testing';
+import { MatTableHarness } from '@angular/material/table/testing';
+import { provideRouter } from '@angular/router';
+import type { Member } from '@evalon/contracts';
+import { errorInterceptor } from '../../core/interceptors';
+import { SessionStore } from '../../core/session-store';
+import { membership, organisations, person } from '../../testing/people';
+import { Members } from './members';
+
+const orgId = organisations.harbourview.id;
+const listUrl = `/api/organisations/${orgId}/members`;
+
+/** Invented people of Harbourview Health. */
+const team: Member[] = [
+  {
+    userId: 101,
+    membershipId: 1,
+    email: 'dana.whitlock@harbourview.example',
+    name: 'Dana Whitlock',
+    role: 'buyer',
+    active: true,
+    pending: false,
+    lastSignInAt: '2026-11-30T14:05:00.000Z',
+  },
+  {
+    userId: 102,
+    membershipId: 2,
+    email: 'ravi.okafor@harbourview.example',
+    name: 'Ravi Okafor',
+    role: 'clinician',
+    active: true,
+    pending: false,
+    lastSignInAt: '2026-11-28T09:00:00.000Z',
+  },
+  {
+    userId: 103,
+    membershipId: 3,
+    email: 'lena.marsh@harbourview.example',
+    name: 'Lena Marsh',
+    role: 'clinician',
+    active: true,
+    pending: true,
+    lastSignInAt: null,
+  },
+  {
+    userId: 104,
+    membershipId: 4,
+    email: 'tom.becker@harbourview.example',
+    name: 'Tom Becker',
+    role: 'buyer',
+    active: false,
+    pending: false,
+    lastSignInAt: '2026-06-01T10:00:00.000Z',
+  },
+];
+
+describe('Members', () => {
+  let fixture: ComponentFixture<Members>;
+  let loader: HarnessLoader;
+  let root: HarnessLoader;
+  let http: HttpTestingController;
+
+  async function settle(): Promise<void> {
+    await new Promise((resolve) => setTimeout(resolve));
+    await fixture.whenStable();
+  }
+
+  beforeEach(async () => {
+    TestBed.configureTestingModule({
+      providers: [
+        provideRouter([]),
+        provideHttpClient(withInterceptors([errorInterceptor])),
+        provideHttpClientTesting(),
+        { provide: MATERIAL_ANIMATIONS, useValue: { animationsDisabled: true } },
+      ],
+    });
+    http = TestBed.inject(HttpTestingController);
+    TestBed.inject(SessionStore).setUser(person([membership('harbourview', 'buyer')]));
+    fixture = TestBed.createComponent(Members);
+    fixture.componentRef.setInput('orgId', String(orgId));
+    loader = TestbedHarnessEnvironment.loader(fixture);
+    root = TestbedHarnessEnvironment.documentRootLoader(fixture);
+    await fixture.whenStable();
+  });
+
+  afterEach(() => http.verify());
+
+  async function loadTeam(members: Member[] = team): Promise<void> {
+    http.expectOne(listUrl).flush({ items: members });
+    await settle();
+  }
+
+  it('shows a loading bar until the list arrives', async () => {
+    expect(await loader.getAllHarnesses(MatProgressBarHarness)).toHaveLength(1);
+    await loadTeam();
+    expect(await loader.getAllHarnesses(MatProgressBarHarness)).toHaveLength(0);
+  });
+
+  it('lists members sorted by name with role and status', async () => {
+    await loadTeam();
+    const table = await loader.getHarness(MatTableHarness);
+    const rows = await table.getRows();
+    const cells = await Promise.all(rows.map((row) => row.getCellTextByColumnName()));
+    expect(cells.map((c) => c['name'])).toEqual([
+      expect.stringContaining('Dana Whitlock'),
+      expect.stringContaining('Lena Marsh'),
+      expect.stringContaining('Ravi Okafor'),
+      expect.stringContaining('Tom Becker'),
+    ]);
+    expect(cells[0]['name']).toContain('you');
+    expect(cells.map((c) => c['status'])).toEqual([
+      expect.stringContaining('Active'),
+      expect.stringContaining('Invitation sent'),
+      expect.stringContaining('Active'),
+      expect.stringContaining('Deactivated'),
+    ]);
+    expect(cells.map((c) => c['role'])).toEqual([
+      'Hospital buyer',
+      expect.stringContaining('Clinician'),
+      expect.stringContaining('Clinician'),
+      'Hospital buyer',
+    ]);
+    expect(cells[1]['lastSignIn']).toBe('Not yet');
+    expect(fixture.nativeElement.querySelector('.summary').textContent).toContain(
+      '4 people · 1 invitation waiting · 1 deactivated',
+    );
+  });
+
+  it('filters rows by what was typed and says when nothing matches', async () => {
+    await loadTeam();
+    const filter = await loader.getHarness(MatInputHarness.with({ selector: '[type="search"]' }));
+    await filter.setValue('clinician');
+    const table = await loader.getHarness(MatTableHarness);
+    expect(await table.getRows()).toHaveLength(2);
+
+    await filter.setValue('nobody by that name');
+    expect(await table.getRows()).toHaveLength(0);
+    expect(fixture.nativeElement.querySelector('.no-rows').textContent).toContain(
+      'No one matches “nobody by that name”.',
+    );
+  });
+
+  it('shows an empty state with an invite button when nobody is listed', async () => {
+    await loadTeam([]);
+    expect(fixture.nativeElement.textContent).toContain('No one here yet');
+    expect(
+      await loader.getAllHarnesses(MatButtonHarness.with({ text: /Invite someone/ })),
+    ).toHaveLength(2);
+  });
+
+  it('shows the error and tries again', async () => {
+    http.expectOne(listUrl).flush('', { status: 503, statusText: 'Unavailable' });
+    await settle();
+    expect(fixture.nativeElement.textContent).toContain('Members couldn’t be loaded');
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Try again/ }))).click();
+    await loadTeam();
+    expect(await (await loader.getHarness(MatTableHarness)).getRows()).toHaveLength(4);
+  });
+
+  it('changes a role from the row’s select', async () => {
+    await loadTeam();
+    const select = await loader.getHarness(
+      MatSelectHarness.with({ selector: '[aria-label="Role of Ravi Okafor"]' }),
+    );
+    await select.open();
+    expect(await Promise.all((await select.getOptions()).map((o) => o.getText()))).toEqual([
+      'Hospital buyer',
+      'Clinician',
+    ]);
+    await select.clickOptions({ text: 'Hospital buyer' });
+    const request = http.expectOne(`${listUrl}/2`);
+    expect(request.request.method).toBe('PATCH');
+    expect(request.request.body).toEqual({ role: 'buyer' });
+    request.flush({});
+    await settle();
+    expect(await select.getValueText()).toBe('Hospital buyer');
+  });
+
+  it('deactivates only after confirmation', async () => {
+    await loadTeam();
+    const menus = await loader.getAllHarnesses(MatMenuHarness);
+    // Rows are sorted by name and "you" has no menu: Lena, Ravi, Tom.
+    await menus[1].clickItem({ text: /Deactivate/ });
+    const dialog = await root.getHarness(MatDialogHarness);
+    expect(await dialog.getTitleText()).toBe('Deactivate Ravi Okafor?');
+    await (await dialog.getHarness(MatButtonHarness.with({ text: 'Deactivate' }))).click();
+    const request = http.expectOne(`${listUrl}/2/deactivate`);
+    expect(request.request.method).toBe('POST');
+    request.flush({});
+    await settle();
+    const cells = await (await loader.getHarness(MatTableHarness)).getCellTextByIndex();
+    expect(cells[2]).toEqual(expect.arrayContaining([expect.stringContaining('Deactivated')]));
+  });
+
+  it('sends nothing when the confirmation is cancelled', async () => {
+    await loadTeam();
+    const menus = await loader.getAllHarnesses(MatMenuHarness);
+    await menus[2].clickItem({ text: /Reactivate/ });
+    const dialog = await root.getHarness(MatDialogHarness);
+    await (await dialog.getHarness(MatButtonHarness.with({ text: 'Cancel' }))).click();
+    await settle();
+    http.expectNone(`${listUrl}/4/reactivate`);
+  });
+
+  describe('invite dialog', () => {
+    async function openInvite(): Promise<MatDialogHarness> {
+      await loadTeam();
+      await (await loader.getHarness(MatButtonHarness.with({ text: /Invite someone/ }))).click();
+      return root.getHarness(MatDialogHarness);
+    }
+
+    const fieldIn = (dialog: MatDialogHarness, label: string) =>
+      dialog.getHarness(MatFormFieldHarness.with({ floatingLabelText: label }));
+
+    it('says what is missing or wrong and sends nothing', async () => {
+      const dialog = await openInvite();
+      await (await dialog.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
+      expect(await (await fieldIn(dialog, 'Name')).getTextErrors()).toEqual([
+        'Enter the person’s name.',
+      ]);
+      expect(await (await fieldIn(dialog, 'E-mail address')).getTextErrors()).toEqual([
+        'Enter the person’s e-mail address.',
+      ]);
+      expect(await (await fieldIn(dialog, 'Role')).getTextErrors()).toEqual([
+        'Choose what this person will do.',
+      ]);
+
+      const name = await (await fieldIn(dialog, 'Name')).getControl(MatInputHarness);
+      await name?.setValue('   ');
+      const email = await (await fieldIn(dialog, 'E-mail address')).getControl(MatInputHarness);
+      await email?.setValue('not-an-address');
+      expect(await (await fieldIn(dialog, 'Name')).getTextErrors()).toEqual([
+        'Enter the person’s name.',
+      ]);
+      expect(await (await fieldIn(dialog, 'E-mail address')).getTextErrors()).toEqual([
+        'Enter a valid e-mail address.',
+      ]);
+      http.expectNone(`/api/organisations/${orgId}/invitations`);
+    });
+
+    it('sends a tidy invitation and reloads the list', async () => {
+      const dialog = await openInvite();
+      await (
+        await (await fieldIn(dialog, 'Name')).getControl(MatInputHarness)
+      )?.setValue('  Priya Nandakumar ');
+      await (
+        await (await fieldIn(dialog, 'E-mail address')).getControl(MatInputHarness)
+      )?.setValue('Priya.Nandakumar@Harbourview.example');
+      const role = await (await fieldIn(dialog, 'Role')).getControl(MatSelectHarness);
+      await role?.clickOptions({ text: 'Clinician' });
+      await (await dialog.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
+
+      const request = http.expectOne(`/api/organisations/${orgId}/invitations`);
+      expect(request.request.body).toEqual({
+        name: 'Priya Nandakumar',
+        email: 'priya.nandakumar@harbourview.example',
+        role: 'clinician',
+      });
+      request.flush({}, { status: 201, statusText: 'Created' });
+      await settle();
+      http.expectOne(listUrl).flush({ items: team });
+      await settle();
+      expect(await root.getAllHarnesses(MatDialogHarness)).toHaveLength(0);
+    });
+
+    it('shows the server’s word on the e-mail field when the person is already a member', async () => {
+      const dialog = await openInvite();
+      await (
+        await (await fieldIn(dialog, 'Name')).getControl(MatInputHarness)
+      )?.setValue('Ravi Okafor');
+      await (
+        await (await fieldIn(dialog, 'E-mail address')).getControl(MatInputHarness)
+      )?.setValue('ravi.okafor@harbourview.example');
+      await (
+        await (await fieldIn(dialog, 'Role')).getControl(MatSelectHarness)
+      )?.clickOptions({ text: 'Clinician' });
+      await (await dialog.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
+      http
+        .expectOne(`/api/organisations/${orgId}/invitations`)
+        .flush(
+          { error: { code: 'already_member', message: 'This person is already a member.' } },
+          { status: 409, statusText: 'Conflict' },
+        );
+      await settle();
+      expect(await (await fieldIn(dialog, 'E-mail address')).getTextErrors()).toEqual([
+        'This person is already a member.',
+      ]);
+    });
+  });
+});
