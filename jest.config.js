@@ -7,7 +7,7 @@ const tsTransform = {
 };
 const moduleNameMapper = { '^@evalon/([a-z0-9-]+)$': '<rootDir>/packages/$1/src/index.ts' };
 // ESM-only dependencies that Jest's CommonJS runtime must have transpiled.
-const esmOnly = ['file-type', 'ical-generator', 'strtok3', 'token-types', 'peek-readable', 'uint8array-extras', '@tokenizer'];
+const esmOnly = ['@borewit', 'file-type', 'ical-generator', 'strtok3', 'token-types', 'peek-readable', 'uint8array-extras', '@tokenizer'];
 const transformIgnorePatterns = [`node_modules/(?!(${esmOnly.join('|')})/)`];
 
 module.exports = {

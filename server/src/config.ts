@@ -79,6 +79,17 @@ const envSchema = z.object({
   EVALON_GOOGLE_TOKEN_URL: url('http://127.0.0.1:8089/token'),
   EVALON_GOOGLE_USERINFO_URL: url('http://127.0.0.1:8089/userinfo'),
   EVALON_WEB_DIST: str('dist/web/browser'),
+  EVALON_OUTBOX_WORKER: z.preprocess(
+    blankAsMissing,
+    z.enum(['on', 'off'], { error: 'must be on or off' }).default('on'),
+  ),
+  EVALON_OUTBOX_POLL_MS: positive(500),
+  EVALON_OUTBOX_BATCH_SIZE: positive(10),
+  EVALON_OUTBOX_MAX_ATTEMPTS: positive(8),
+  EVALON_OUTBOX_BACKOFF_BASE_MS: positive(2_000),
+  EVALON_OUTBOX_BACKOFF_CAP_MS: positive(15 * 60_000),
+  EVALON_OUTBOX_LEASE_MS: positive(5 * 60_000),
+  EVALON_SMTP_TIMEOUT_MS: positive(30_000),
 });
 
 /** Settings of the whole server, read once from the environment. */
@@ -131,6 +142,25 @@ export interface Config {
   };
   /** Absolute path of the built Angular app (may not exist). */
   webDist: string;
+  /** The e-mail outbox worker (see docs/decisions/0003-outbox.md). */
+  outbox: {
+    /** Whether this process drains the outbox (several processes may). */
+    worker: boolean;
+    /** Pause between polls when the outbox had nothing due. */
+    pollIntervalMs: number;
+    /** Messages claimed per short claiming transaction. */
+    batchSize: number;
+    /** Send attempts before a message is parked for an admin. */
+    maxAttempts: number;
+    /** First retry delay; it doubles per attempt (with jitter) up to `backoffCapMs`. */
+    backoffBaseMs: number;
+    /** Largest retry delay ceiling (15 minutes by default). */
+    backoffCapMs: number;
+    /** How long a claimed message stays reserved for its worker before others may reclaim it. */
+    leaseMs: number;
+    /** Longest a single SMTP exchange may take (connection, greeting and socket inactivity). */
+    smtpTimeoutMs: number;
+  };
 }
 
 /** Thrown when the environment holds a value the server cannot use; the message lists each one. */
@@ -170,6 +200,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const problems: string[] = [];
   if (e.NODE_ENV === 'production' && e.EVALON_SESSION_SECRET === developmentSessionSecret) {
     problems.push('EVALON_SESSION_SECRET: set a secret of your own in production');
+  }
+  // One SMTP exchange can spend a timeout on the connection, the greeting and the socket: the
+  // lease must outlast that, or a live worker's message could be reclaimed and sent twice.
+  if (e.EVALON_OUTBOX_LEASE_MS < 4 * e.EVALON_SMTP_TIMEOUT_MS) {
+    problems.push('EVALON_OUTBOX_LEASE_MS: must be at least 4 times EVALON_SMTP_TIMEOUT_MS');
+  }
+  if (e.EVALON_OUTBOX_BACKOFF_CAP_MS < e.EVALON_OUTBOX_BACKOFF_BASE_MS) {
+    problems.push('EVALON_OUTBOX_BACKOFF_CAP_MS: must not be below EVALON_OUTBOX_BACKOFF_BASE_MS');
   }
   if (problems.length) throw new ConfigError(problems);
 
@@ -219,5 +257,15 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       userInfoUrl: e.EVALON_GOOGLE_USERINFO_URL,
     },
     webDist: path.resolve(process.cwd(), e.EVALON_WEB_DIST),
+    outbox: {
+      worker: e.EVALON_OUTBOX_WORKER === 'on',
+      pollIntervalMs: e.EVALON_OUTBOX_POLL_MS,
+      batchSize: e.EVALON_OUTBOX_BATCH_SIZE,
+      maxAttempts: e.EVALON_OUTBOX_MAX_ATTEMPTS,
+      backoffBaseMs: e.EVALON_OUTBOX_BACKOFF_BASE_MS,
+      backoffCapMs: e.EVALON_OUTBOX_BACKOFF_CAP_MS,
+      leaseMs: e.EVALON_OUTBOX_LEASE_MS,
+      smtpTimeoutMs: e.EVALON_SMTP_TIMEOUT_MS,
+    },
   };
 }

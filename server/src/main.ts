@@ -6,6 +6,7 @@ import { createDataSource } from './database/data-source';
 import { sweepExpiredSessions } from './http/session';
 import { createLogger } from './logger';
 import { SmtpMailer } from './notifications/mailer';
+import { createOutboxWorker } from './notifications/outbox-worker';
 
 const sessionSweepIntervalMs = 15 * 60_000;
 
@@ -37,8 +38,19 @@ async function main(): Promise<void> {
     logger.warn('the database has migrations that have not run: run `npm run db:migrate`');
   }
 
-  const mailer = new SmtpMailer(config.smtp);
+  const mailer = new SmtpMailer(config.smtp, { timeoutMs: config.outbox.smtpTimeoutMs });
   const app = createApp({ config, dataSource, mailer, logger });
+  // The outbox worker sends what transactions enqueued; any number of processes may run one.
+  const outboxWorker = config.outbox.worker
+    ? createOutboxWorker(config, { dataSource, mailer, logger })
+    : null;
+  outboxWorker?.start();
+  if (outboxWorker) {
+    logger.info(
+      { worker: outboxWorker.id, smtp: `${config.smtp.host}:${config.smtp.port}` },
+      'outbox worker started',
+    );
+  }
   const server = app.listen(config.http.port, config.http.host);
   server.on('listening', () => {
     const address = server.address();
@@ -69,12 +81,19 @@ async function main(): Promise<void> {
     stopping = true;
     logger.info({ signal }, 'Evalon server stopping');
     clearInterval(sweeper);
+    // The worker finishes the message it is sending and hands the rest of its batch back, so
+    // nothing stays `sending` until its lease runs out.
+    const workerStopped = (outboxWorker?.stop() ?? Promise.resolve()).catch((err: unknown) =>
+      logger.warn({ err }, 'outbox worker did not stop cleanly'),
+    );
     server.close(() => {
-      mailer.close();
-      dataSource
-        .destroy()
-        .catch(() => undefined)
-        .finally(() => process.exit(0));
+      void workerStopped.then(() => {
+        mailer.close();
+        dataSource
+          .destroy()
+          .catch(() => undefined)
+          .finally(() => process.exit(0));
+      });
     });
     server.closeIdleConnections();
     // Busy keep-alive connections can hold close() open; do not wait for ever.

@@ -3,3 +3,4 @@ export * from './identity';
 export * from './catalog';
 export * from './loans';
 export * from './system';
+export * from './notifications';

@@ -2,18 +2,36 @@ import type { MailMessage, Mailer } from '../../src/notifications/mailer';
 
 /**
  * A {@link Mailer} for tests that keeps what would have been sent, so a test can read the
- * one-time link out of it. SMTP itself is covered by smtp-mail.test.ts against maildev.
+ * one-time link out of it. The outbox worker of the test app hands it the messages; SMTP itself
+ * is covered by smtp-mail.test.ts against maildev.
  */
 export class RecordingMailer implements Mailer {
   readonly sent: MailMessage[] = [];
 
+  /** @param delayMs How long each send takes (to let concurrent workers interleave). */
+  constructor(private readonly delayMs: () => number = () => 0) {}
+
   async send(message: MailMessage): Promise<void> {
+    const delay = this.delayMs();
+    if (delay > 0) await new Promise((r) => setTimeout(r, delay));
     this.sent.push(message);
   }
 
   /** Messages to one address, oldest first. */
   to(address: string): MailMessage[] {
-    return this.sent.filter((m) => m.to === address);
+    return this.sent.filter((m) =>
+      Array.isArray(m.to) ? m.to.includes(address) : m.to === address,
+    );
+  }
+
+  /** How many times each Message-ID was sent. */
+  countsByMessageId(): Map<string, number> {
+    const counts = new Map<string, number>();
+    for (const m of this.sent) {
+      const id = m.messageId ?? '(none)';
+      counts.set(id, (counts.get(id) ?? 0) + 1);
+    }
+    return counts;
   }
 
   /** Waits (briefly) for a message to arrive for `address`; some mail leaves in the background. */

@@ -6,6 +6,7 @@ import type {
 } from '@evalon/contracts';
 import { insertAuditEvent } from '../../audit/data-access/audit-repository';
 import { AppError } from '../../http/errors';
+import { enqueueEmail } from '../../notifications/outbox';
 import { passwordResetEmail } from '../../notifications/templates';
 import {
   deleteSessionsOfUser,
@@ -18,15 +19,16 @@ import {
   useOpenTokens,
 } from '../data-access/identity-repository';
 import type { AuthContext } from './auth-context';
-import { sendAfterCommit, type IdentityDeps, type RequestContext } from './deps';
+import type { IdentityDeps, RequestContext } from './deps';
 import { assertTokenUsable } from './members';
 import { hashPassword, verifyPassword } from './passwords';
 import { hashToken, newOneTimeToken, passwordResetLifetimeMs } from './tokens';
 
 /**
  * Starts a password reset. Whether or not the address has an account, the caller answers the
- * same (202), and the e-mail leaves in the background so the response time does not tell
- * either. Earlier reset links of that person stop working.
+ * same (202); the e-mail goes into the outbox in the same transaction as the token and leaves
+ * from the worker, so the response time does not depend on the mail server either. Earlier reset
+ * links of that person stop working.
  */
 export async function requestPasswordReset(
   deps: IdentityDeps,
@@ -36,9 +38,9 @@ export async function requestPasswordReset(
   const now = deps.now();
   const { token, tokenHash } = newOneTimeToken();
   const expiresAt = new Date(now.getTime() + passwordResetLifetimeMs);
-  const user = await deps.dataSource.transaction(async (m) => {
+  await deps.dataSource.transaction(async (m) => {
     const found = await findUserByEmail(m, email, true);
-    if (!found || !found.active) return null;
+    if (!found || !found.active) return;
     await useOpenTokens(m, found.id, 'password_reset', now);
     await insertToken(
       m,
@@ -60,19 +62,17 @@ export async function requestPasswordReset(
       subject: `user:${found.id}`,
       requestId: ctx.requestId,
     });
-    return found;
+    await enqueueEmail(
+      m,
+      passwordResetEmail({
+        to: found.email,
+        name: found.name,
+        link: `${deps.publicUrl}/reset-password?token=${encodeURIComponent(token)}`,
+        expiresAt,
+      }),
+      now,
+    );
   });
-  if (!user) return;
-  void sendAfterCommit(
-    deps,
-    passwordResetEmail({
-      to: user.email,
-      name: user.name,
-      link: `${deps.publicUrl}/reset-password?token=${encodeURIComponent(token)}`,
-      expiresAt,
-    }),
-    'password reset',
-  );
 }
 
 /** Sets a new password with a reset token; every session of that person ends. */

@@ -8,6 +8,7 @@ import type {
 } from '@evalon/contracts';
 import { insertAuditEvent } from '../../audit/data-access/audit-repository';
 import { AppError } from '../../http/errors';
+import { enqueueEmail } from '../../notifications/outbox';
 import { addedToOrganisationEmail, invitationEmail } from '../../notifications/templates';
 import { findOrganisation } from '../../organisations/data-access/organisation-repository';
 import {
@@ -29,7 +30,7 @@ import {
   useOpenTokens,
 } from '../data-access/identity-repository';
 import type { AuthContext } from './auth-context';
-import { sendAfterCommit, type IdentityDeps, type RequestContext } from './deps';
+import type { IdentityDeps, RequestContext } from './deps';
 import { hashPassword } from './passwords';
 import { assignableRoles, keepsAManager, roleFitsKind } from './policy';
 import { hashToken, invitationLifetimeMs, newOneTimeToken, tokenProblem } from './tokens';
@@ -70,7 +71,7 @@ export async function inviteMember(
   const now = deps.now();
   const { token, tokenHash } = newOneTimeToken();
   const expiresAt = new Date(now.getTime() + invitationLifetimeMs);
-  const outcome = await deps.dataSource.transaction(async (m) => {
+  return deps.dataSource.transaction(async (m) => {
     const organisation = await lockOrganisation(m, organisationId);
     if (!roleFitsKind(request.role, organisation.kind)) {
       throw AppError.field(
@@ -141,31 +142,31 @@ export async function inviteMember(
       },
       requestId: ctx.requestId,
     });
+    // The e-mail is written in this transaction: no membership without its e-mail, and no
+    // e-mail about a membership that was rolled back. The outbox worker sends it after COMMIT.
+    const message = needsPassword
+      ? invitationEmail({
+          to: user.email,
+          inviteeName: user.name,
+          inviterName: auth.user.name,
+          organisationName: organisation.name,
+          role: request.role,
+          link: `${deps.publicUrl}/accept-invitation?token=${encodeURIComponent(token)}`,
+          expiresAt,
+        })
+      : addedToOrganisationEmail({
+          to: user.email,
+          name: user.name,
+          inviterName: auth.user.name,
+          organisationName: organisation.name,
+          role: request.role,
+          link: `${deps.publicUrl}/sign-in`,
+        });
+    await enqueueEmail(m, message, now);
     const member = await getMember(m, organisationId, membershipId);
     if (!member) throw new Error('membership vanished inside its own transaction');
-    return { member, organisation, user, needsPassword };
+    return member;
   });
-
-  const message = outcome.needsPassword
-    ? invitationEmail({
-        to: outcome.user.email,
-        inviteeName: outcome.user.name,
-        inviterName: auth.user.name,
-        organisationName: outcome.organisation.name,
-        role: request.role,
-        link: `${deps.publicUrl}/accept-invitation?token=${encodeURIComponent(token)}`,
-        expiresAt,
-      })
-    : addedToOrganisationEmail({
-        to: outcome.user.email,
-        name: outcome.user.name,
-        inviterName: auth.user.name,
-        organisationName: outcome.organisation.name,
-        role: request.role,
-        link: `${deps.publicUrl}/sign-in`,
-      });
-  await sendAfterCommit(deps, message, 'invitation');
-  return outcome.member;
 }
 
 /** Sends a fresh invitation link to a member who has not accepted yet (older links stop working). */
@@ -179,7 +180,7 @@ export async function resendInvitation(
   const now = deps.now();
   const { token, tokenHash } = newOneTimeToken();
   const expiresAt = new Date(now.getTime() + invitationLifetimeMs);
-  const outcome = await deps.dataSource.transaction(async (m) => {
+  return deps.dataSource.transaction(async (m) => {
     const organisation = await lockOrganisation(m, organisationId);
     const membership = await findMembership(m, organisationId, membershipId);
     if (!membership) throw AppError.notFound('member_not_found', 'There is no such member here.');
@@ -218,24 +219,23 @@ export async function resendInvitation(
       detail: { userId: user.id },
       requestId: ctx.requestId,
     });
+    await enqueueEmail(
+      m,
+      invitationEmail({
+        to: user.email,
+        inviteeName: user.name,
+        inviterName: auth.user.name,
+        organisationName: organisation.name,
+        role: membership.role,
+        link: `${deps.publicUrl}/accept-invitation?token=${encodeURIComponent(token)}`,
+        expiresAt,
+      }),
+      now,
+    );
     const member = await getMember(m, organisationId, membershipId);
     if (!member) throw new Error('membership vanished inside its own transaction');
-    return { member, organisation, user, role: membership.role };
+    return member;
   });
-  await sendAfterCommit(
-    deps,
-    invitationEmail({
-      to: outcome.user.email,
-      inviteeName: outcome.user.name,
-      inviterName: auth.user.name,
-      organisationName: outcome.organisation.name,
-      role: outcome.role,
-      link: `${deps.publicUrl}/accept-invitation?token=${encodeURIComponent(token)}`,
-      expiresAt,
-    }),
-    'invitation',
-  );
-  return outcome.member;
 }
 
 /** Throws the readable error for a token that cannot be used. */
