@@ -35,6 +35,14 @@ export class MembersApi {
     );
   }
 
+  /** Sends a fresh invitation link to someone who has not accepted yet; older links stop working. */
+  resendInvitation(organisationId: number, membershipId: number): Observable<unknown> {
+    return this.http.post(
+      `/api/organisations/${organisationId}/members/${membershipId}/resend-invitation`,
+      null,
+    );
+  }
+
   /** Lets a deactivated member sign in again. */
   reactivate(organisationId: number, membershipId: number): Observable<unknown> {
     return this.http.post(

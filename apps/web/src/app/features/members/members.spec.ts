@@ -204,6 +204,35 @@ describe('Members', () => {
     expect(cells[2]).toEqual(expect.arrayContaining([expect.stringContaining('Deactivated')]));
   });
 
+  it('sends a pending person a fresh invitation link from the row menu', async () => {
+    await loadTeam();
+    const menus = await loader.getAllHarnesses(MatMenuHarness);
+    // Rows are sorted by name and "you" has no menu: Lena (pending), Ravi, Tom.
+    await menus[0].open();
+    const texts = await Promise.all((await menus[0].getItems()).map((item) => item.getText()));
+    // Item texts start with their icon's ligature name.
+    expect(texts).toEqual([
+      expect.stringContaining('Send the invitation again'),
+      expect.stringContaining('Deactivate'),
+    ]);
+    await menus[0].clickItem({ text: /Send the invitation again/ });
+    const request = http.expectOne(`${listUrl}/3/resend-invitation`);
+    expect(request.request.method).toBe('POST');
+    request.flush({ member: team[2] });
+    await settle();
+    http.expectNone(listUrl);
+  });
+
+  it('offers no new invitation link to people who have accepted', async () => {
+    await loadTeam();
+    const menus = await loader.getAllHarnesses(MatMenuHarness);
+    await menus[1].open();
+    const texts = await menus[1]
+      .getItems()
+      .then((items) => Promise.all(items.map((i) => i.getText())));
+    expect(texts.some((t) => t.includes('Send the invitation again'))).toBe(false);
+  });
+
   it('sends nothing when the confirmation is cancelled', async () => {
     await loadTeam();
     const menus = await loader.getAllHarnesses(MatMenuHarness);

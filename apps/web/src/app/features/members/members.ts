@@ -280,6 +280,24 @@ export class Members {
     }
   }
 
+  /** Sends a pending member a fresh invitation link (the server retires the older ones). */
+  protected async resendInvitation(row: MemberRow): Promise<void> {
+    const { email, membershipId } = row.member;
+    this.busyMembership.set(membershipId);
+    try {
+      await firstValueFrom(this.api.resendInvitation(this.organisationId(), membershipId), {
+        defaultValue: undefined,
+      });
+      this.notifier.success(`A new invitation is on its way to ${email}.`);
+    } catch (error) {
+      this.notifier.error(error);
+      // The person may have accepted meanwhile; show where they stand now.
+      void this.load(this.organisationId());
+    } finally {
+      this.busyMembership.set(null);
+    }
+  }
+
   private async load(organisationId: number): Promise<void> {
     this.loading.set(true);
     this.loadError.set(null);

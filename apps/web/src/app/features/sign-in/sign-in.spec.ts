@@ -126,6 +126,22 @@ describe('SignIn', () => {
     expect(alertText()).toBe('Too many sign-in attempts. Try again in 5 minutes.');
   });
 
+  it("tells how long to wait on the server's 429 too_many_attempts, from Retry-After", async () => {
+    await signInWith('dana.whitlock@harbourview.example', 'evalon-demo');
+    await answerLogin(
+      429,
+      { error: { code: 'too_many_attempts', message: 'Too many sign-in attempts.' } },
+      { 'Retry-After': '900' },
+    );
+    expect(alertText()).toBe('Too many sign-in attempts. Try again in 15 minutes.');
+  });
+
+  it('explains a deactivated account after Google sign-in', async () => {
+    fixture.componentRef.setInput('error', 'account_deactivated');
+    await fixture.whenStable();
+    expect(alertText()).toMatch(/^This account has been deactivated\./);
+  });
+
   it('explains a Google account that is not linked to anyone', async () => {
     fixture.componentRef.setInput('error', 'google_unknown');
     await fixture.whenStable();

@@ -12,12 +12,25 @@ import { AuthApi, googleSignInUrl } from '../../core/auth-api';
 import { SessionStore } from '../../core/session-store';
 import { AuthFrame } from '../../shared/auth-frame/auth-frame';
 
-/** Messages for `?error=` codes the Google sign-in callback sends back. */
+/** The words for a deactivated account, whichever way the person tried to sign in. */
+const deactivatedMessage =
+  'This account has been deactivated. Ask someone who manages members of your organisation to reactivate it.';
+
+/**
+ * Messages for every `?error=` code the Google sign-in callback sends back (the contract's
+ * `SignInRedirectError`); an unknown code falls back to a general line.
+ */
 const googleErrors: Record<string, string> = {
   google_unknown:
     'That Google account isn’t linked to anyone in Evalon yet. Ask your organisation to invite you with that e-mail address, or sign in with your e-mail and password.',
+  google_unverified:
+    'Google hasn’t confirmed that e-mail address, so Evalon can’t use it. Sign in with your e-mail and password instead.',
+  google_mismatch:
+    'That Google account isn’t the one linked to this Evalon account. Choose the other Google account, or sign in with your e-mail and password.',
+  google_cancelled: 'Signing in with Google was cancelled. Try again when you’re ready.',
   google_failed:
     'Signing in with Google didn’t finish. Try again, or sign in with your e-mail and password.',
+  account_deactivated: deactivatedMessage,
 };
 
 /** Messages for `?reason=` that explain why someone landed here. */
@@ -34,7 +47,9 @@ export function signInFailureMessage(error: unknown): string {
     case 'invalid_credentials':
       return 'That e-mail address and password don’t match. Check both and try again.';
     case 'account_deactivated':
-      return 'This account has been deactivated. Ask someone who manages members of your organisation to reactivate it.';
+      return deactivatedMessage;
+    // The server's sign-in limiter answers 429 `too_many_attempts` (server/src/http/rate-limits.ts).
+    case 'too_many_attempts':
     case 'rate_limited':
       return error.retryAfterSeconds !== null
         ? `Too many sign-in attempts. Try again in ${describeWait(error.retryAfterSeconds)}.`
