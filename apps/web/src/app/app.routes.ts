@@ -81,6 +81,18 @@ export const routes: Routes = [
         loadChildren: () =>
           import('./features/approvals/approvals.routes').then((m) => m.approvalsRoutes),
       },
+      {
+        path: 'equipment',
+        canActivate: [roleGuard('buyer')],
+        loadChildren: () =>
+          import('./features/equipment/equipment.routes').then((m) => m.equipmentRoutes),
+      },
+      {
+        // Clinicians read their hospital's loans; only buyers request (guarded inside) and cancel.
+        path: 'loans',
+        canActivate: [roleGuard('buyer', 'clinician')],
+        loadChildren: () => import('./features/loans/loans.routes').then((m) => m.loansRoutes),
+      },
       ...placeholderRoutes,
       {
         path: '**',

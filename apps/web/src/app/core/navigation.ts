@@ -31,22 +31,6 @@ export interface NavEntry {
  */
 export const plannedDestinations: readonly Destination[] = [
   {
-    path: 'equipment',
-    label: 'Find equipment',
-    icon: 'search',
-    roles: ['buyer'],
-    summary:
-      'Search lenders’ surgical platforms by category, compatible accessories, location and your case dates, and see each unit’s earliest dates and deposit before you ask for a loan.',
-  },
-  {
-    path: 'loans',
-    label: 'Loans',
-    icon: 'inventory_2',
-    roles: ['buyer'],
-    summary:
-      'Follow every evaluation loan from request to return: dates, deposit, purchase order, signed loan agreement, receipt and the evaluation report.',
-  },
-  {
     path: 'proctoring',
     label: 'Proctoring',
     icon: 'supervisor_account',
@@ -115,6 +99,23 @@ export const plannedDestinations: readonly Destination[] = [
  * roles as its navigation entry.
  */
 export const builtDestinations: readonly Destination[] = [
+  {
+    path: 'equipment',
+    label: 'Find equipment',
+    icon: 'search',
+    roles: ['buyer'],
+    summary:
+      'Search lenders’ surgical platforms by category, compatible accessories, location and your case dates, and see each unit’s earliest dates and deposit before you ask for a loan.',
+  },
+  {
+    path: 'loans',
+    label: 'Loans',
+    icon: 'inventory_2',
+    // Clinicians follow their hospital's loans read-only; buyers request and cancel.
+    roles: ['buyer', 'clinician'],
+    summary:
+      'Follow every evaluation loan from request to return: dates, deposit, purchase order, signed loan agreement, receipt and the evaluation report.',
+  },
   {
     path: 'catalog',
     label: 'Catalog',
