@@ -90,6 +90,32 @@ const envSchema = z.object({
   EVALON_OUTBOX_BACKOFF_CAP_MS: positive(15 * 60_000),
   EVALON_OUTBOX_LEASE_MS: positive(5 * 60_000),
   EVALON_SMTP_TIMEOUT_MS: positive(30_000),
+  EVALON_PAYMENTS_SECRET_KEY: str('sk_test_evalon_local'),
+  EVALON_PAYMENTS_HOST: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_PAYMENTS_PORT: z.preprocess(
+    blankAsMissing,
+    z.coerce
+      .number({ error: 'must be a port number' })
+      .int('must be a whole number')
+      .min(1, 'must be between 1 and 65535')
+      .max(65535, 'must be between 1 and 65535')
+      .optional(),
+  ),
+  EVALON_PAYMENTS_PROTOCOL: z.preprocess(
+    blankAsMissing,
+    z.enum(['http', 'https'], { error: 'must be http or https' }).optional(),
+  ),
+  EVALON_PAYMENTS_WEBHOOK_SECRET: z.preprocess(
+    blankAsMissing,
+    z.string().startsWith('whsec_', 'must start with whsec_').default('whsec_evalon_local'),
+  ),
+  EVALON_PAYMENTS_TIMEOUT_MS: positive(20_000),
+  EVALON_DEPOSIT_WINDOW_HOURS: positive(72),
+  EVALON_DEPOSIT_EXPIRY_JOB: z.preprocess(
+    blankAsMissing,
+    z.enum(['on', 'off'], { error: 'must be on or off' }).default('on'),
+  ),
+  EVALON_DEPOSIT_EXPIRY_INTERVAL_MS: positive(60_000),
 });
 
 /** Settings of the whole server, read once from the environment. */
@@ -161,6 +187,56 @@ export interface Config {
     /** Longest a single SMTP exchange may take (connection, greeting and socket inactivity). */
     smtpTimeoutMs: number;
   };
+  /** The payment provider (its official SDK) and the deposit rules around it. */
+  payments: PaymentsConfig;
+}
+
+/** Settings of the payments component (the decisions are in the JsDoc of `payments/domain`). */
+export interface PaymentsConfig {
+  /** The provider's secret API key; `sk_test_…` keys go to the local fake unless told otherwise. */
+  secretKey: string;
+  /**
+   * Where the SDK sends requests instead of the provider's hosted API, or null for the hosted
+   * API itself (a live key with no `EVALON_PAYMENTS_HOST`, or `EVALON_PAYMENTS_HOST=hosted`).
+   */
+  endpoint: { host: string; port: number; protocol: 'http' | 'https' } | null;
+  /** Signing secret of our webhook endpoint (`whsec_…`). */
+  webhookSecret: string;
+  /** Longest one SDK request may take before it is retried or given up. */
+  timeoutMs: number;
+  /** Automatic retries of a failed SDK request (with the same idempotency key). */
+  maxNetworkRetries: number;
+  /** Time the buyer has after approval to secure the deposit (capped by the ship-by day). */
+  depositWindowMs: number;
+  /** Whether this process runs the expiry job (several processes may). */
+  expiryJob: boolean;
+  /** Pause between runs of the expiry job. */
+  expiryIntervalMs: number;
+}
+
+/**
+ * Where the SDK should send requests. An explicit `EVALON_PAYMENTS_HOST` wins (`hosted` means
+ * the provider's own API); otherwise live keys use the hosted API and any other key the local
+ * payments fake on 127.0.0.1:12111, so a developer can never send a test request to the hosted
+ * API by accident, nor a live one to the fake.
+ */
+function paymentsEndpoint(e: {
+  EVALON_PAYMENTS_SECRET_KEY: string;
+  EVALON_PAYMENTS_HOST?: string;
+  EVALON_PAYMENTS_PORT?: number;
+  EVALON_PAYMENTS_PROTOCOL?: 'http' | 'https';
+}): PaymentsConfig['endpoint'] {
+  const host = e.EVALON_PAYMENTS_HOST?.trim();
+  const live = /^(sk|rk)_live_/.test(e.EVALON_PAYMENTS_SECRET_KEY);
+  if (host === 'hosted' || (host === undefined && live)) return null;
+  const resolvedHost = host ?? '127.0.0.1';
+  const loopback = /^(127\.\d+\.\d+\.\d+|localhost|\[?::1\]?)$/.test(resolvedHost);
+  const protocol = e.EVALON_PAYMENTS_PROTOCOL ?? (loopback ? 'http' : 'https');
+  return {
+    host: resolvedHost,
+    port: e.EVALON_PAYMENTS_PORT ?? (loopback ? 12111 : protocol === 'https' ? 443 : 80),
+    protocol,
+  };
 }
 
 /** Thrown when the environment holds a value the server cannot use; the message lists each one. */
@@ -205,6 +281,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   // lease must outlast that, or a live worker's message could be reclaimed and sent twice.
   if (e.EVALON_OUTBOX_LEASE_MS < 4 * e.EVALON_SMTP_TIMEOUT_MS) {
     problems.push('EVALON_OUTBOX_LEASE_MS: must be at least 4 times EVALON_SMTP_TIMEOUT_MS');
+  }
+  if (/^(sk|rk)_live_/.test(e.EVALON_PAYMENTS_SECRET_KEY) && e.NODE_ENV !== 'production') {
+    problems.push('EVALON_PAYMENTS_SECRET_KEY: a live key is accepted in production only');
   }
   if (e.EVALON_OUTBOX_BACKOFF_CAP_MS < e.EVALON_OUTBOX_BACKOFF_BASE_MS) {
     problems.push('EVALON_OUTBOX_BACKOFF_CAP_MS: must not be below EVALON_OUTBOX_BACKOFF_BASE_MS');
@@ -266,6 +345,16 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       backoffCapMs: e.EVALON_OUTBOX_BACKOFF_CAP_MS,
       leaseMs: e.EVALON_OUTBOX_LEASE_MS,
       smtpTimeoutMs: e.EVALON_SMTP_TIMEOUT_MS,
+    },
+    payments: {
+      secretKey: e.EVALON_PAYMENTS_SECRET_KEY,
+      endpoint: paymentsEndpoint(e),
+      webhookSecret: e.EVALON_PAYMENTS_WEBHOOK_SECRET,
+      timeoutMs: e.EVALON_PAYMENTS_TIMEOUT_MS,
+      maxNetworkRetries: 2,
+      depositWindowMs: e.EVALON_DEPOSIT_WINDOW_HOURS * 3_600_000,
+      expiryJob: e.EVALON_DEPOSIT_EXPIRY_JOB === 'on',
+      expiryIntervalMs: e.EVALON_DEPOSIT_EXPIRY_INTERVAL_MS,
     },
   };
 }

@@ -7,6 +7,7 @@ import { sweepExpiredSessions } from './http/session';
 import { createLogger } from './logger';
 import { SmtpMailer } from './notifications/mailer';
 import { createOutboxWorker } from './notifications/outbox-worker';
+import { createPaymentsClient, createPaymentsDeps, startDepositExpiryJob } from './payments';
 
 const sessionSweepIntervalMs = 15 * 60_000;
 
@@ -39,7 +40,19 @@ async function main(): Promise<void> {
   }
 
   const mailer = new SmtpMailer(config.smtp, { timeoutMs: config.outbox.smtpTimeoutMs });
-  const app = createApp({ config, dataSource, mailer, logger });
+  // One SDK client per process, shared by the routes and the deposit expiry job.
+  const paymentsClient = createPaymentsClient(config.payments);
+  const app = createApp({ config, dataSource, mailer, logger, paymentsClient });
+  // Approved loans whose deposit deadline passed expire; any number of processes may run it.
+  const expiryJob = config.payments.expiryJob
+    ? startDepositExpiryJob(
+        createPaymentsDeps({ config, dataSource, logger, provider: paymentsClient }),
+        config.payments.expiryIntervalMs,
+      )
+    : null;
+  if (expiryJob) {
+    logger.info({ intervalMs: config.payments.expiryIntervalMs }, 'deposit expiry job started');
+  }
   // The outbox worker sends what transactions enqueued; any number of processes may run one.
   const outboxWorker = config.outbox.worker
     ? createOutboxWorker(config, { dataSource, mailer, logger })
@@ -83,9 +96,10 @@ async function main(): Promise<void> {
     clearInterval(sweeper);
     // The worker finishes the message it is sending and hands the rest of its batch back, so
     // nothing stays `sending` until its lease runs out.
-    const workerStopped = (outboxWorker?.stop() ?? Promise.resolve()).catch((err: unknown) =>
-      logger.warn({ err }, 'outbox worker did not stop cleanly'),
-    );
+    const workerStopped = Promise.all([
+      outboxWorker?.stop() ?? Promise.resolve(),
+      expiryJob?.stop() ?? Promise.resolve(),
+    ]).catch((err: unknown) => logger.warn({ err }, 'background work did not stop cleanly'));
     server.close(() => {
       void workerStopped.then(() => {
         mailer.close();

@@ -1,6 +1,6 @@
 import mysql from 'mysql2/promise';
 import type { DataSource } from 'typeorm';
-import { isTimeZone } from '@evalon/contracts';
+import { isTimeZone, isValidGtin, modelCategories } from '@evalon/contracts';
 import { createApp } from '../src/app';
 import { loadConfig, type Config } from '../src/config';
 import { createDataSource } from '../src/database/data-source';
@@ -49,7 +49,15 @@ describe('demo data', () => {
   it('loads into an empty database only', async () => {
     expect(await isDatabaseEmpty(dataSource)).toBe(true);
     const summary = await loadDemoData(dataSource);
-    expect(summary).toEqual({ organisations: 5, sites: 6, people: 11 });
+    expect(summary).toEqual({
+      organisations: 5,
+      sites: 6,
+      people: 11,
+      models: 7,
+      units: 37,
+      maintenanceHolds: 4,
+      loans: 7,
+    });
     const [counts] = await dataSource.query(
       'SELECT (SELECT COUNT(*) FROM organisations) AS o, (SELECT COUNT(*) FROM sites) AS s, (SELECT COUNT(*) FROM users) AS u',
     );
@@ -167,11 +175,82 @@ describe('demo data', () => {
       .expect(401);
   });
 
+  it('lists Kestrel’s catalogue: models in every category, 30+ units over 3 depots, valid GTINs', async () => {
+    const models: { id: number; category: string; name: string }[] = await dataSource.query(
+      `SELECT m.id, m.category, m.name FROM models m JOIN organisations o ON o.id = m.lender_id
+        WHERE o.name = 'Kestrel Surgical'`,
+    );
+    expect(models.length).toBeGreaterThanOrEqual(6);
+    expect(new Set(models.map((m) => m.category))).toEqual(new Set(modelCategories));
+    const perDepot: { depot: string; n: string }[] = await dataSource.query(
+      `SELECT d.name AS depot, COUNT(*) AS n FROM units u JOIN sites d ON d.id = u.home_depot_id
+        GROUP BY d.name ORDER BY d.name`,
+    );
+    expect(perDepot.map((r) => r.depot)).toEqual([
+      'Kestrel East Depot',
+      'Kestrel Europe Depot',
+      'Kestrel West Depot',
+    ]);
+    expect(perDepot.reduce((sum, r) => sum + Number(r.n), 0)).toBeGreaterThanOrEqual(30);
+    // GS1 check digits (GS1 General Specifications §7.9.1) of every packing-list GTIN and UDI.
+    const gtins: { gtin: string }[] = await dataSource.query(
+      'SELECT gtin FROM model_packing_items WHERE gtin IS NOT NULL UNION SELECT udi_di FROM units WHERE udi_di IS NOT NULL',
+    );
+    expect(gtins.length).toBeGreaterThan(20);
+    expect(gtins.filter((g) => !isValidGtin(g.gtin))).toEqual([]);
+    // The robotic platform works with the flexible endoscopes and the laser (and back).
+    const robot = models.find((m) => m.category === 'robotic_platform')!;
+    const partners: { category: string }[] = await dataSource.query(
+      `SELECT m.category FROM model_compatibility c JOIN models m ON m.id = c.compatible_model_id
+        WHERE c.model_id = ?`,
+      [robot.id],
+    );
+    expect(partners.map((p) => p.category)).toEqual(
+      expect.arrayContaining(['flexible_endoscope', 'laser']),
+    );
+    const back: { n: string }[] = await dataSource.query(
+      'SELECT COUNT(*) AS n FROM model_compatibility WHERE compatible_model_id = ?',
+      [robot.id],
+    );
+    expect(Number(back[0]!.n)).toBe(partners.length);
+  });
+
+  it('has loans of both hospitals in each early state, and holds in the coming months', async () => {
+    const loans: { hospital: string; state: string }[] = await dataSource.query(
+      'SELECT o.name AS hospital, l.state FROM loans l JOIN organisations o ON o.id = l.hospital_id',
+    );
+    expect(new Set(loans.map((l) => l.state))).toEqual(
+      new Set(['requested', 'approved', 'declined', 'cancelled']),
+    );
+    expect(loans.filter((l) => l.hospital === 'Harbourview Health').length).toBeGreaterThanOrEqual(
+      3,
+    );
+    expect(loans.filter((l) => l.hospital === 'Klinikum Rheinau').length).toBeGreaterThanOrEqual(3);
+    const holds: { kind: string; start: string; loan_state: string | null }[] =
+      await dataSource.query(
+        `SELECT h.kind, CAST(h.start_date AS CHAR) AS start, l.state AS loan_state
+         FROM holds h LEFT JOIN loans l ON l.id = h.loan_id`,
+      );
+    const today = new Date().toISOString().slice(0, 10);
+    expect(holds.filter((h) => h.kind === 'maintenance').length).toBeGreaterThanOrEqual(3);
+    expect(holds.every((h) => h.start >= today)).toBe(true);
+    // Declined and cancelled loans gave their holds back.
+    expect(
+      holds.filter((h) => h.loan_state === 'declined' || h.loan_state === 'cancelled'),
+    ).toEqual([]);
+    const events: { n: string }[] = await dataSource.query('SELECT COUNT(*) AS n FROM loan_events');
+    expect(Number(events[0]!.n)).toBe(7 + 4); // one request each, plus 2 approvals, 1 decline, 1 cancel
+  });
+
   it('reset empties every application table', async () => {
     await truncateAppTables(dataSource);
     expect(await isDatabaseEmpty(dataSource)).toBe(true);
     const [sessions] = await dataSource.query('SELECT COUNT(*) AS n FROM sessions');
     expect(Number(sessions.n)).toBe(0);
+    for (const table of ['models', 'units', 'loans', 'holds', 'loan_events']) {
+      const [row] = await dataSource.query(`SELECT COUNT(*) AS n FROM ${table}`);
+      expect([table, Number(row.n)]).toEqual([table, 0]);
+    }
     const [migrations] = await dataSource.query('SELECT COUNT(*) AS n FROM migrations');
     expect(Number(migrations.n)).toBeGreaterThan(0);
   });

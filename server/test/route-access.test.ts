@@ -47,6 +47,8 @@ describe('every route declares who may call it', () => {
         'POST /api/auth/accept-invitation',
         'GET /api/auth/google',
         'GET /api/auth/google/callback',
+        // Signed by the payment provider instead (verified before anything is read).
+        'POST /api/webhooks/payments',
       ].sort(),
     );
   });

@@ -4,3 +4,4 @@ export * from './catalog';
 export * from './loans';
 export * from './system';
 export * from './notifications';
+export * from './payments';

@@ -23,7 +23,9 @@ async function main(): Promise<void> {
     const summary = await loadDemoData(dataSource);
     console.log(
       `[evalon] demo data loaded into ${config.db.database}: ${summary.organisations} organisations, ` +
-        `${summary.sites} sites, ${summary.people} people (password for every demo account: ${demoPassword})`,
+        `${summary.sites} sites, ${summary.people} people, ${summary.models} models, ${summary.units} units, ` +
+        `${summary.loans} loans, ${summary.maintenanceHolds} maintenance holds ` +
+        `(password for every demo account: ${demoPassword})`,
     );
   } finally {
     await dataSource.destroy();

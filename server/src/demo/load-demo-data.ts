@@ -14,6 +14,7 @@ import {
   insertSite,
 } from '../organisations/data-access/organisation-repository';
 import { demoOrganisations, demoPassword } from './demo-data';
+import { loadDemoCatalog, type DemoCatalogSummary } from './load-demo-catalog';
 
 /** Whether the database holds no organisations and no people yet. */
 export async function isDatabaseEmpty(dataSource: DataSource): Promise<boolean> {
@@ -38,16 +39,17 @@ export async function truncateAppTables(dataSource: DataSource): Promise<void> {
 }
 
 /** What was loaded, for the CLI to report. */
-export interface DemoSummary {
+export interface DemoSummary extends DemoCatalogSummary {
   organisations: number;
   sites: number;
   people: number;
 }
 
 /**
- * Loads the invented demo scenario in one transaction: organisations with campuses and depots,
+ * Loads the invented demo scenario: in one transaction organisations with campuses and depots,
  * people with roles (password `evalon-demo`), one pending invitation and one deactivated
- * clinician so the members pages look lived-in. Refuses a database that is not empty.
+ * clinician so the members pages look lived-in; then the lender's catalogue, maintenance and
+ * loans dated from `now` (see load-demo-catalog.ts). Refuses a database that is not empty.
  */
 export async function loadDemoData(dataSource: DataSource, now = new Date()): Promise<DemoSummary> {
   if (!(await isDatabaseEmpty(dataSource))) {
@@ -56,7 +58,15 @@ export async function loadDemoData(dataSource: DataSource, now = new Date()): Pr
     );
   }
   const passwordHash = await hashPassword(demoPassword);
-  const summary: DemoSummary = { organisations: 0, sites: 0, people: 0 };
+  const summary: DemoSummary = {
+    organisations: 0,
+    sites: 0,
+    people: 0,
+    models: 0,
+    units: 0,
+    maintenanceHolds: 0,
+    loans: 0,
+  };
   await dataSource.transaction(async (m) => {
     for (const org of demoOrganisations) {
       const organisationId = await insertOrganisation(
@@ -136,5 +146,7 @@ export async function loadDemoData(dataSource: DataSource, now = new Date()): Pr
       detail: { ...summary },
     });
   });
+  // The catalogue and loans go through the product's own use cases, each in its transaction.
+  Object.assign(summary, await loadDemoCatalog(dataSource, now));
   return summary;
 }

@@ -5,6 +5,7 @@ import { loadConfig, type Config } from '../../src/config';
 import { createDataSource } from '../../src/database/data-source';
 import { createLogger } from '../../src/logger';
 import type { Mailer } from '../../src/notifications/mailer';
+import { createOutboxWorker, type OutboxWorker } from '../../src/notifications/outbox-worker';
 import { RecordingMailer } from './recording-mailer';
 
 /** An app on this worker's database, with the pieces a test needs to look behind it. */
@@ -14,33 +15,44 @@ export interface TestApp {
   dataSource: DataSource;
   /** The recording mailer, unless the test passed its own. */
   mail: RecordingMailer;
+  /** The outbox worker sending to the mailer, unless the test turned it off. */
+  worker: OutboxWorker | null;
   close(): Promise<void>;
 }
 
 /**
- * Builds the real app (real database, real session store) with environment overrides.
- * E-mail goes to a {@link RecordingMailer} unless `mailer` is given.
+ * Builds the real app (real database, real session store) with environment overrides, plus an
+ * outbox worker that hands e-mail to a {@link RecordingMailer} (or to `mailer` when given).
+ * The worker polls every 50 ms and is woken at once after a transaction that enqueued commits;
+ * `outboxWorker: false` leaves e-mail in the outbox for the test to drain itself.
  */
 export async function startTestApp(
   env: Record<string, string> = {},
-  options: { mailer?: Mailer } = {},
+  options: { mailer?: Mailer; outboxWorker?: boolean } = {},
 ): Promise<TestApp> {
   const config = loadConfig({ ...process.env, ...env });
   const dataSource = createDataSource(config.db);
   await dataSource.initialize();
   const mail = new RecordingMailer();
-  const app = createApp({
-    config,
-    dataSource,
-    mailer: options.mailer ?? mail,
-    logger: createLogger(config.logLevel),
-  });
+  const logger = createLogger(config.logLevel);
+  const mailer = options.mailer ?? mail;
+  const app = createApp({ config, dataSource, mailer, logger });
+  const worker =
+    options.outboxWorker === false
+      ? null
+      : createOutboxWorker(
+          { ...config, outbox: { ...config.outbox, pollIntervalMs: 50 } },
+          { dataSource, mailer, logger },
+        );
+  worker?.start();
   return {
     app,
     config,
     dataSource,
     mail,
+    worker,
     close: async () => {
+      await worker?.stop();
       if (dataSource.isInitialized) await dataSource.destroy();
     },
   };

@@ -1,0 +1,25 @@
+import type { EntityManager } from 'typeorm';
+
+/** Loan events that someone may want to hear about. */
+export type LoanNotificationEvent = 'requested' | 'approved' | 'declined' | 'cancelled';
+
+/** What happened to a loan; the hook reads whatever else it needs with `manager`. */
+export interface LoanEventNotice {
+  loanId: number;
+  event: LoanNotificationEvent;
+  /** Who caused it. */
+  actorUserId: number;
+  /** The reason given (decline, cancel), if any. */
+  reason?: string | null;
+}
+
+/**
+ * Called inside the transaction that changed the loan, with that transaction's manager, so a
+ * transactional outbox can write its messages atomically with the change (if the hook throws,
+ * the change is rolled back). It must not send anything itself: the outbox worker does that
+ * after commit. Whatever it returns is ignored.
+ */
+export type NotifyLoanEvent = (manager: EntityManager, notice: LoanEventNotice) => Promise<unknown>;
+
+/** The default hook: nothing to notify (until the outbox plugs in its own). */
+export const noLoanNotifications: NotifyLoanEvent = async () => undefined;
