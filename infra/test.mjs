@@ -100,6 +100,21 @@ async function main() {
   for (const l of lines) log(l);
 }
 
+async function registerWebhookEndpoint(url) {
+  const base = `http://127.0.0.1:${ports.payments}/__fake/webhook-endpoints`;
+  const existing = await (await fetch(base)).json();
+  if (existing.data?.some((e) => e.url === url)) return;
+  const res = await fetch(base, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({
+      url,
+      secret: process.env.EVALON_PAYMENTS_WEBHOOK_SECRET ?? 'whsec_evalon_local',
+    }),
+  });
+  if (!res.ok) throw new Error(`payments stand-in refused the webhook endpoint: ${await res.text()}`);
+}
+
 async function runE2e() {
   const port = Number(process.env.EVALON_E2E_PORT ?? 8180);
   if (await portOpen(port)) throw new Error(`Port ${port} is taken; set EVALON_E2E_PORT.`);
@@ -125,6 +140,9 @@ async function runE2e() {
   });
   try {
     await waitForPort(port, 'the Evalon server for browser tests');
+    // The payments stand-in may have been started for `npm start` (webhooks to :8080); make it
+    // deliver to this server too. Duplicate deliveries are harmless: each event id counts once.
+    await registerWebhookEndpoint(`http://127.0.0.1:${port}/api/webhooks/payments`);
     const out = path.join(reports, 'playwright.json');
     fs.rmSync(out, { force: true });
     log('browser tests (Playwright, Debian Chromium)');
