@@ -1,6 +1,6 @@
 import { provideHttpClient, withInterceptors } from '@angular/common/http';
 import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
-import { Component } from '@angular/core';
+import { ChangeDetectionStrategy, Component } from '@angular/core';
 import { TestBed } from '@angular/core/testing';
 import { Router, provideRouter } from '@angular/router';
 import { RouterTestingHarness } from '@angular/router/testing';
@@ -8,7 +8,7 @@ import { membership, person } from '../testing/people';
 import { roleGuard, signedIn, signedOut } from './guards';
 import { errorInterceptor } from './interceptors';
 
-@Component({ template: 'page' })
+@Component({ template: 'page', changeDetection: ChangeDetectionStrategy.OnPush })
 class Page {}
 
 describe('guards', () => {
