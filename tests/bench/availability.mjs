@@ -158,12 +158,22 @@ async function loadLoans(db, fleet, hospitalCount) {
     if (l.state === 'declined' || l.state === 'cancelled') return;
     const next = (sequence.get(l.unit.id) ?? 0) + 1;
     sequence.set(l.unit.id, next);
-    holds.push([l.unit.id, 'loan', l.shipBy, l.readyAgain, firstLoan + i, next, l.now]);
+    const hospitalId = fleet.hospitalIds[l.hospitalIndex];
+    holds.push([l.unit.id, 'loan', l.shipBy, l.readyAgain, firstLoan + i, hospitalId, next, l.now]);
   });
   await bulkInsert(
     db,
     'holds',
-    ['unit_id', 'kind', 'start_date', 'end_date', 'loan_id', 'sequence', 'created_at'],
+    [
+      'unit_id',
+      'kind',
+      'start_date',
+      'end_date',
+      'loan_id',
+      'hospital_id',
+      'sequence',
+      'created_at',
+    ],
     holds,
   );
   await db.query(

@@ -23,6 +23,7 @@ import {
 } from '../loans/data-access/entities';
 import { Catalog1764720000000 } from './migrations/1764720000000-catalog';
 import { Loans1764720060000 } from './migrations/1764720060000-loans';
+import { HoldsHospital1764979200000 } from './migrations/1764979200000-holds-hospital';
 import { Payments1764892800000 } from './migrations/1764892800000-payments';
 
 /** Every entity, listed by hand because the server is bundled (no globbing at run time). */
@@ -54,6 +55,7 @@ export const migrations: (new () => MigrationInterface)[] = [
   Loans1764720060000,
   OutboxNotifications1764806400000,
   Payments1764892800000,
+  HoldsHospital1764979200000,
 ];
 
 /** Tables the application owns (everything but TypeORM's `migrations`), children first. */

@@ -40,7 +40,11 @@ export function availabilityRoutes(deps: AvailabilityDeps, catalogue: CatalogueE
       },
     },
     async ({ req, res, query }) => {
-      res.json(await searchAvailability(deps, currentAuth(req), query));
+      const body = JSON.stringify(await searchAvailability(deps, currentAuth(req), query));
+      // Answers change with every booking, so no validator: ending the response directly also
+      // skips Express's ETag, a hash of the whole (tens of kB) body on every search.
+      res.setHeader('Cache-Control', 'no-store');
+      res.type('application/json').end(body);
     },
   );
 

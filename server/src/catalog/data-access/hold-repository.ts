@@ -31,8 +31,8 @@ interface HoldSqlRow {
 }
 
 /**
- * Holds of some units that touch `[from, to]`, sorted by unit then start. One query whatever
- * the number of units: the availability search reads every candidate's holds at once.
+ * Holds of some units that touch `[from, to]`, by unit then end. One query whatever the number
+ * of units: the availability search reads every candidate's holds at once.
  */
 export async function findHoldsForUnits(
   m: EntityManager,
@@ -41,13 +41,14 @@ export async function findHoldsForUnits(
   to: string,
 ): Promise<HoldInterval[]> {
   if (unitIds.length === 0) return [];
+  // Ordered as the (unit_id, end_date, ...) index reads, so the database sorts nothing.
   const rows: HoldSqlRow[] = await m.query(
     `SELECT h.id, h.unit_id, h.kind, CAST(h.start_date AS CHAR) AS start_date,
-            CAST(h.end_date AS CHAR) AS end_date, h.loan_id, l.hospital_id
-       FROM holds h LEFT JOIN loans l ON l.id = h.loan_id
+            CAST(h.end_date AS CHAR) AS end_date, h.loan_id, h.hospital_id
+       FROM holds h
       WHERE h.unit_id IN (${unitIds.map(() => '?').join(', ')})
         AND h.end_date >= ? AND h.start_date <= ?
-      ORDER BY h.unit_id, h.start_date`,
+      ORDER BY h.unit_id, h.end_date`,
     [...unitIds, from, to],
   );
   return rows.map((r) => ({
@@ -115,6 +116,8 @@ export interface NewHold {
   start: string;
   end: string;
   loanId: number | null;
+  /** The loan's hospital (null for maintenance). */
+  hospitalId: number | null;
   reason: string | null;
   /** The unit's booking version after this write (unique per unit). */
   sequence: number;
@@ -129,15 +132,16 @@ export async function insertHolds(
 ): Promise<number> {
   if (holds.length === 0) return 0;
   const result: { insertId?: number } = await m.query(
-    `INSERT INTO holds (unit_id, kind, start_date, end_date, loan_id, reason, sequence, created_at,
-        created_by_user_id)
-     VALUES ${holds.map(() => '(?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
+    `INSERT INTO holds (unit_id, kind, start_date, end_date, loan_id, hospital_id, reason, sequence,
+        created_at, created_by_user_id)
+     VALUES ${holds.map(() => '(?, ?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
     holds.flatMap((h) => [
       h.unitId,
       h.kind,
       h.start,
       h.end,
       h.loanId,
+      h.hospitalId,
       h.reason,
       h.sequence,
       now,

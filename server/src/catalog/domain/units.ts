@@ -296,6 +296,7 @@ export async function addMaintenanceHold(
           start: input.start,
           end: input.end,
           loanId: null,
+          hospitalId: null,
           reason: input.reason,
           sequence: locked.bookingVersion + 1,
           createdByUserId: auth.user.id,

@@ -114,6 +114,8 @@ export interface HoldRow {
   startDate: string;
   endDate: string;
   loanId: number | null;
+  /** The loan's hospital (copied so the availability search needs no join); null otherwise. */
+  hospitalId: number | null;
   reason: string | null;
   /** The unit's booking_version after the write that made this hold (unique per unit). */
   sequence: number;
@@ -131,6 +133,7 @@ export const HoldEntity = new EntitySchema<HoldRow>({
     startDate: dateColumn('start_date'),
     endDate: dateColumn('end_date'),
     loanId: refColumn('loan_id', true),
+    hospitalId: refColumn('hospital_id', true),
     reason: { type: 'varchar', length: 300, nullable: true },
     sequence: { type: 'int', unsigned: true },
     createdAt: instantColumn('created_at'),

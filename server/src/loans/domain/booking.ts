@@ -241,6 +241,7 @@ async function bookInTransaction(
         start: fp.hold.start,
         end: fp.hold.end,
         loanId,
+        hospitalId: campus.hospitalId,
         reason: null,
         sequence: versions.get(u.unitId)! + 1,
         createdByUserId: auth.user.id,
