@@ -12,6 +12,11 @@ export const demoPassword = 'evalon-demo';
 /** maildev's HTTP API: `npm test` sets EVALON_INBOX_URL; the default is the local stand-in. */
 export const inboxUrl = process.env.EVALON_INBOX_URL ?? 'http://127.0.0.1:1080';
 
+/** The payments stand-in's address (its hosted pages and its `/__fake` control API). */
+export const paymentsFakeUrl =
+  process.env.EVALON_PAYMENTS_FAKE_URL ??
+  `http://127.0.0.1:${process.env.EVALON_PAYMENTS_PORT ?? '12111'}`;
+
 /** The greeting on Home: "Good morning|afternoon|evening, <first name>". */
 export function greetingFor(firstName: string): RegExp {
   return new RegExp(`^Good (morning|afternoon|evening), ${escapeRegExp(firstName)}$`);
@@ -92,6 +97,8 @@ export interface InboxMessage {
   html: string;
   to: { address: string; name?: string }[];
   time: string;
+  /** Attached files (maildev lists each with its name and type). */
+  attachments?: { fileName?: string; generatedFileName?: string; contentType?: string }[];
 }
 
 /**

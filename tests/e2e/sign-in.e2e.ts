@@ -26,8 +26,8 @@ const roleCases: RoleCase[] = [
     email: 'admin@evalon.example',
     name: 'Noor Lindqvist',
     context: 'Evalon Marketplace · Marketplace operator · Marketplace admin',
-    navigation: ['Home', 'Organisations', 'Audit', 'Members'],
-    cards: ['Organisations', 'Audit', 'Members'],
+    navigation: ['Home', 'Organisations', 'Audit', 'E-mail outbox', 'Members'],
+    cards: ['E-mail outbox', 'Organisations', 'Audit', 'Members'],
   },
   {
     email: 'buyer@harbourview.example',
@@ -54,7 +54,7 @@ const roleCases: RoleCase[] = [
     email: 'fleet@kestrel.example',
     name: 'Marcus Tennant-Hale',
     context: 'Kestrel Surgical · Lender · Fleet manager',
-    navigation: ['Home', 'Catalog', 'Approvals', 'Units', 'Members'],
+    navigation: ['Home', 'Catalog', 'Approvals', 'Credit agreements', 'Units', 'Members'],
     cards: ['Loan requests', 'Catalog', 'Members'],
   },
   {

@@ -89,9 +89,30 @@ export const routes: Routes = [
       },
       {
         // Clinicians read their hospital's loans; only buyers request (guarded inside) and cancel.
+        // The lender's people and the admin open single loans (from notifications and Home).
         path: 'loans',
-        canActivate: [roleGuard('buyer', 'clinician')],
+        canActivate: [roleGuard('buyer', 'clinician', 'fleet_manager', 'coordinator', 'admin')],
         loadChildren: () => import('./features/loans/loans.routes').then((m) => m.loansRoutes),
+      },
+      {
+        path: 'notifications',
+        loadChildren: () =>
+          import('./features/notifications/notifications.routes').then(
+            (m) => m.notificationsRoutes,
+          ),
+      },
+      {
+        path: 'credit-agreements',
+        canActivate: [roleGuard('fleet_manager')],
+        loadChildren: () =>
+          import('./features/credit-agreements/credit-agreements.routes').then(
+            (m) => m.creditAgreementsRoutes,
+          ),
+      },
+      {
+        path: 'outbox',
+        canActivate: [roleGuard('admin')],
+        loadChildren: () => import('./features/outbox/outbox.routes').then((m) => m.outboxRoutes),
       },
       ...placeholderRoutes,
       {

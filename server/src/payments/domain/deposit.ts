@@ -297,7 +297,7 @@ async function createCheckout(
       },
       ...(expiresAt ? { expires_at: expiresAt } : {}),
     },
-    { idempotencyKey: idempotencyKeys.checkout(loan.id, row.id) },
+    { idempotencyKey: idempotencyKeys.checkout(loan.id, row.id, row.createdAt) },
   );
 }
 

@@ -31,8 +31,13 @@ export function createPaymentsClient(config: PaymentsConfig): PaymentsClient {
  * of parameters use fresh keys. Keys stay far below the provider's 255 characters.
  */
 export const idempotencyKeys = {
-  /** Creating the checkout session of one payment row. */
-  checkout: (loanId: number, paymentId: number) => `loan-${loanId}-checkout-${paymentId}-v1`,
+  /**
+   * Creating the checkout session of one payment row. The row's creation instant is part of the
+   * key: ids restart when a database is rebuilt (demo reset, test runs) while the provider keeps
+   * keys for 24 h, and the same id with new parameters would be refused as a reused key.
+   */
+  checkout: (loanId: number, paymentId: number, rowCreatedAt: Date) =>
+    `loan-${loanId}-checkout-${paymentId}-${rowCreatedAt.getTime()}-v1`,
   /** Expiring an open checkout session (loan confirmed otherwise, expired or cancelled). */
   expireSession: (loanId: number, sessionId: string) => `loan-${loanId}-expire-${sessionId}-v1`,
   /** Cancelling a hold that no longer secures a live loan. */

@@ -9,8 +9,21 @@ describe('navigationFor', () => {
     expect(labels(['clinician'])).toEqual(['Home', 'Loans', 'Schedule', 'Case log']);
     expect(labels(['proctor'])).toEqual(['Home', 'Visit offers', 'Credentials']);
     expect(labels(['coordinator'])).toEqual(['Home', 'Shipments', 'Units']);
-    expect(labels(['fleet_manager'])).toEqual(['Home', 'Catalog', 'Approvals', 'Units', 'Members']);
-    expect(labels(['admin'])).toEqual(['Home', 'Organisations', 'Audit', 'Members']);
+    expect(labels(['fleet_manager'])).toEqual([
+      'Home',
+      'Catalog',
+      'Approvals',
+      'Credit agreements',
+      'Units',
+      'Members',
+    ]);
+    expect(labels(['admin'])).toEqual([
+      'Home',
+      'Organisations',
+      'Audit',
+      'E-mail outbox',
+      'Members',
+    ]);
   });
 
   it('merges several roles without repeating entries', () => {

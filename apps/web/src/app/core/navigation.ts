@@ -133,6 +133,21 @@ export const builtDestinations: readonly Destination[] = [
       'Approve or decline hospitals’ loan requests with the dates and deposit in front of you.',
   },
   {
+    path: 'credit-agreements',
+    label: 'Credit agreements',
+    icon: 'handshake',
+    roles: ['fleet_manager'],
+    summary:
+      'Choose which hospitals may confirm your loans with a purchase order instead of a card deposit.',
+  },
+  {
+    path: 'outbox',
+    label: 'E-mail outbox',
+    icon: 'outgoing_mail',
+    roles: ['admin'],
+    summary: 'See e-mails Evalon could not deliver and send them again.',
+  },
+  {
     path: 'units',
     label: 'Units',
     icon: 'devices',
@@ -157,9 +172,11 @@ const navigationOrder: readonly string[] = [
   'shipments',
   'catalog',
   'approvals',
+  'credit-agreements',
   'units',
   'organisations',
   'audit',
+  'outbox',
 ];
 
 /** Every destination, built or planned, in navigation order. */

@@ -32,6 +32,11 @@ describe('Shell', () => {
     fixture = TestBed.createComponent(Shell);
     loader = TestbedHarnessEnvironment.loader(fixture);
     await fixture.whenStable();
+    // The notification bell asks for news as the shell appears (its own spec covers it).
+    await new Promise((resolve) => setTimeout(resolve));
+    for (const poll of TestBed.inject(HttpTestingController).match('/api/notifications?limit=5')) {
+      if (!poll.cancelled) poll.flush({ items: [], unreadCount: 0 });
+    }
   }
 
   /** Labels of the side navigation links (each link's text is "<icon ligature> <label>"). */
@@ -83,7 +88,20 @@ describe('Shell', () => {
 
     expect(session.activeOrganisation()?.id).toBe(organisations.meridian.id);
     expect(navigate).toHaveBeenCalledWith('/');
-    expect(await navLabels()).toEqual(['Home', 'Catalog', 'Approvals', 'Units', 'Members']);
+    expect(await navLabels()).toEqual([
+      'Home',
+      'Catalog',
+      'Approvals',
+      'Credit agreements',
+      'Units',
+      'Members',
+    ]);
+  });
+
+  it('has the notification bell in the top bar', async () => {
+    await render([membership('meridian', 'coordinator')]);
+    const bell = fixture.nativeElement.querySelector('.top-bar ev-notification-bell button');
+    expect(bell?.getAttribute('aria-label')).toBe('Notifications');
   });
 
   it('signs out from the person menu', async () => {
@@ -99,6 +117,6 @@ describe('Shell', () => {
 
     expect(session.signedIn()).toBe(false);
     expect(navigate).toHaveBeenCalledWith(['/sign-in'], { queryParams: { reason: 'signed-out' } });
-    http.verify();
+    http.verify({ ignoreCancelled: true });
   });
 });

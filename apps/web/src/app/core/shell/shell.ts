@@ -12,13 +12,15 @@ import { map } from 'rxjs';
 import { navigationFor } from '../navigation';
 import { organisationKindLabels, roleLabels } from '../roles';
 import { SessionStore } from '../session-store';
+import { NotificationBell } from './notification-bell';
+import { NotificationInbox } from './notification-inbox';
 
 /** Below this width the side navigation becomes a drawer that opens over the page. */
 const compactQuery = '(max-width: 959.98px)';
 
 /**
- * The signed-in frame: top bar (product, organisation switcher, person menu), side navigation
- * by role, and the page.
+ * The signed-in frame: top bar (product, organisation switcher, notifications, person menu),
+ * side navigation by role, and the page.
  */
 @Component({
   selector: 'ev-shell',
@@ -36,6 +38,7 @@ const compactQuery = '(max-width: 959.98px)';
     MatSidenavContainer,
     MatSidenavContent,
     MatToolbar,
+    NotificationBell,
     RouterLink,
     RouterLinkActive,
     RouterOutlet,
@@ -46,6 +49,7 @@ const compactQuery = '(max-width: 959.98px)';
 })
 export class Shell {
   protected readonly session = inject(SessionStore);
+  private readonly inbox = inject(NotificationInbox);
   private readonly router = inject(Router);
   private readonly sidenav = viewChild.required(MatSidenav);
 
@@ -102,6 +106,7 @@ export class Shell {
   protected async signOut(): Promise<void> {
     // The session is forgotten locally even when the server can't be reached, so go on anyway.
     await this.session.signOut().catch(() => undefined);
+    this.inbox.clear();
     await this.router.navigate(['/sign-in'], { queryParams: { reason: 'signed-out' } });
   }
 }

@@ -1,14 +1,43 @@
-import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  LOCALE_ID,
+  computed,
+  inject,
+  signal,
+} from '@angular/core';
+import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { RouterLink } from '@angular/router';
+import type { Loan, LoanState } from '@evalon/contracts';
+import { Observable, catchError, map, merge, of, shareReplay, startWith, switchMap } from 'rxjs';
+import { messageOf } from '../../core/api-error';
 import { organisationKindLabels, roleLabels } from '../../core/roles';
 import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { todayIn } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
-import { nextStepsFor } from './next-steps';
+import { HOME_OUTBOX_LIMIT, HomeApi } from './home-api';
+import {
+  LiveSource,
+  NextStep,
+  StepSummary,
+  approvalsSummary,
+  arrivalsSummary,
+  buyerLoansSummary,
+  nextStepsFor,
+  outboxSummary,
+  shippingSummary,
+} from './next-steps';
+
+/** Where a live card stands: loading, failed, or showing its summary (null: the empty state). */
+export type CardState =
+  | { readonly status: 'loading' }
+  | { readonly status: 'error'; readonly message: string }
+  | { readonly status: 'ready'; readonly summary: StepSummary | null };
 
 /** "Good morning" etc. for an hour of the day (0–23). */
 export function greetingFor(hour: number): string {
@@ -28,7 +57,12 @@ function hourIn(timeZone: string, now = new Date()): number {
   }
 }
 
-/** The start page: a greeting, next steps for the person's roles and the cautions. */
+/**
+ * The start page: a greeting, next steps for the person's roles (live from the API where the
+ * feature exists: loans needing a deposit, requests waiting for approval, loans to ship, loans
+ * coming to the campus, e-mails that could not be delivered) and the cautions. A card that fails
+ * to load says so on its own; the rest of the page stays.
+ */
 @Component({
   selector: 'ev-home',
   imports: [
@@ -46,6 +80,11 @@ function hourIn(timeZone: string, now = new Date()): number {
 })
 export class Home {
   protected readonly session = inject(SessionStore);
+  private readonly api = inject(HomeApi);
+  private readonly locale = inject(LOCALE_ID);
+  private readonly attempt = signal(0);
+  /** Live cards by key. */
+  protected readonly cardStates = signal<Readonly<Record<string, CardState>>>({});
 
   protected readonly greeting = computed(() => {
     const firstName = this.session.user()?.name.trim().split(/\s+/)[0] ?? '';
@@ -64,6 +103,74 @@ export class Home {
   });
 
   protected readonly steps = computed(() => nextStepsFor(this.session.roles()));
+
+  constructor() {
+    toObservable(computed(() => ({ steps: this.steps(), attempt: this.attempt() })))
+      .pipe(
+        switchMap(({ steps }) => {
+          const live = steps.filter((s): s is NextStep & { live: LiveSource } => !!s.live);
+          this.cardStates.set(
+            Object.fromEntries(live.map((s) => [s.key, { status: 'loading' } as CardState])),
+          );
+          // One read of each loan list per load, shared by the cards that need it.
+          const loans = new Map<string, Observable<Loan[]>>();
+          const loansIn = (state?: LoanState) => {
+            const key = state ?? 'all';
+            if (!loans.has(key)) loans.set(key, this.api.loans(state).pipe(shareReplay(1)));
+            return loans.get(key)!;
+          };
+          return merge(
+            ...live.map((step) =>
+              this.summaryOf(step.live, loansIn).pipe(
+                map((summary): CardState => ({ status: 'ready', summary })),
+                catchError((error: unknown) =>
+                  of<CardState>({ status: 'error', message: messageOf(error) }),
+                ),
+                startWith<CardState>({ status: 'loading' }),
+                map((state) => [step.key, state] as const),
+              ),
+            ),
+          );
+        }),
+        takeUntilDestroyed(),
+      )
+      .subscribe(([key, state]) => this.cardStates.update((all) => ({ ...all, [key]: state })));
+  }
+
+  /** A card's state; cards without live content are always ready with their empty state. */
+  protected stateOf(step: NextStep): CardState {
+    return step.live
+      ? (this.cardStates()[step.key] ?? { status: 'loading' })
+      : { status: 'ready', summary: null };
+  }
+
+  /** Loads the live cards again (after a failure). */
+  protected retry(): void {
+    this.attempt.update((n) => n + 1);
+  }
+
+  private summaryOf(
+    source: LiveSource,
+    loansIn: (state?: LoanState) => Observable<Loan[]>,
+  ): Observable<StepSummary | null> {
+    const today = todayIn(this.session.timeZone());
+    switch (source) {
+      case 'buyer-loans':
+        return loansIn().pipe(map((loans) => buyerLoansSummary(loans, this.locale)));
+      case 'approvals':
+        return loansIn('requested').pipe(map((loans) => approvalsSummary(loans, this.locale)));
+      case 'shipping':
+        return loansIn('confirmed').pipe(
+          map((loans) => shippingSummary(loans, today, this.locale)),
+        );
+      case 'arrivals':
+        return loansIn().pipe(map((loans) => arrivalsSummary(loans, today, this.locale)));
+      case 'outbox':
+        return this.api
+          .parkedEmails()
+          .pipe(map((mails) => outboxSummary(mails, HOME_OUTBOX_LIMIT)));
+    }
+  }
 
   protected readonly membersLink = computed(() => {
     const organisation = this.session.activeOrganisation();

@@ -1,4 +1,13 @@
-import type { Role } from '@evalon/contracts';
+import type { Loan, LoanState, OutboxMessage, Role } from '@evalon/contracts';
+import { addDays, formatDay, formatWindowCompact } from '../../shared/iso-date';
+
+/**
+ * Where a card's live content comes from: the buyer's loans, the fleet manager's waiting
+ * requests, the coordinator's confirmed loans to ship, the clinician's upcoming loans, the
+ * admin's parked e-mails. Cards without a source show their empty state (their feature is not
+ * built yet).
+ */
+export type LiveSource = 'buyer-loans' | 'approvals' | 'shipping' | 'arrivals' | 'outbox';
 
 /** A card on the home page: what to look at next, and what it looks like when there is nothing. */
 export interface NextStep {
@@ -10,11 +19,208 @@ export interface NextStep {
   /** What will appear here, or what to do first. */
   readonly emptyMessage: string;
   readonly action: { readonly label: string; readonly link: string };
+  /** Where the card's content comes from, when it has live content. */
+  readonly live?: LiveSource;
+}
+
+/** One line in a card: something to do or to know, with where to do it. */
+export interface StepItem {
+  readonly key: string;
+  readonly icon: string;
+  readonly text: string;
+  readonly detail: string;
+  readonly link: string;
+  /** `action`: the person must act; `waiting`: someone else must; `info`: coming up. */
+  readonly tone: 'action' | 'waiting' | 'info';
+}
+
+/** What a live card shows: a headline (a count), a few items, and how many more there are. */
+export interface StepSummary {
+  readonly headline: string;
+  readonly items: readonly StepItem[];
+  /** Items left out of the card (shown on the feature's page). */
+  readonly more: number;
+  /** Said when there is nothing to do right now but the headline still counts something. */
+  readonly quiet?: string;
+}
+
+/** How many items a card lists before "and N more". */
+export const itemsPerCard = 3;
+
+/** States of a loan that is under way (not finished, not stopped). */
+export const activeLoanStates: readonly LoanState[] = [
+  'requested',
+  'approved',
+  'confirmed',
+  'shipped',
+  'delivered',
+  'returning',
+  'returned',
+];
+
+const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+
+function limited(items: StepItem[]): { items: StepItem[]; more: number } {
+  return { items: items.slice(0, itemsPerCard), more: Math.max(0, items.length - itemsPerCard) };
+}
+
+const byShipBy = (a: Loan, b: Loan) =>
+  a.milestones.shipBy.localeCompare(b.milestones.shipBy) || a.id - b.id;
+
+/**
+ * A buyer's loans: how many are under way, the approved ones first ("Secure the deposit for
+ * EV-…", soonest shipping first), then the requests waiting for the lender. Null without any
+ * loan under way (the card shows its empty state).
+ */
+export function buyerLoansSummary(loans: readonly Loan[], locale = 'en-US'): StepSummary | null {
+  const active = loans.filter((l) => activeLoanStates.includes(l.state));
+  if (!active.length) return null;
+  const approved = active.filter((l) => l.state === 'approved').sort(byShipBy);
+  const requested = active
+    .filter((l) => l.state === 'requested')
+    .sort((a, b) => a.createdAt.localeCompare(b.createdAt) || a.id - b.id);
+  const items: StepItem[] = [
+    ...approved.map((l) => ({
+      key: `loan-${l.id}`,
+      icon: 'payments',
+      text: `Secure the deposit for ${l.reference}`,
+      detail: `${l.lenderName} approved · cases ${formatWindowCompact(l.useFrom, l.useTo, locale)}`,
+      link: `/loans/${l.id}`,
+      tone: 'action' as const,
+    })),
+    ...requested.map((l) => ({
+      key: `loan-${l.id}`,
+      icon: 'hourglass_top',
+      text: `Waiting for the lender: ${l.reference}`,
+      detail: `${l.lenderName} · cases ${formatWindowCompact(l.useFrom, l.useTo, locale)}`,
+      link: `/loans/${l.id}`,
+      tone: 'waiting' as const,
+    })),
+  ];
+  const needDeposit = approved.length
+    ? ` · ${approved.length} ${approved.length === 1 ? 'needs' : 'need'} a deposit`
+    : '';
+  return {
+    headline: `${plural(active.length, 'active loan', 'active loans')}${needDeposit}`,
+    ...limited(items),
+    quiet: 'Nothing needs you right now: your lenders are preparing the rest.',
+  };
+}
+
+/** A fleet manager's waiting requests, longest waiting first. Null when none wait. */
+export function approvalsSummary(requested: readonly Loan[], locale = 'en-US'): StepSummary | null {
+  const waiting = requested
+    .filter((l) => l.state === 'requested')
+    .sort((a, b) => a.createdAt.localeCompare(b.createdAt) || a.id - b.id);
+  if (!waiting.length) return null;
+  return {
+    headline: `${plural(waiting.length, 'loan request', 'loan requests')} waiting for approval`,
+    ...limited(
+      waiting.map((l) => ({
+        key: `loan-${l.id}`,
+        icon: 'inbox',
+        text: `${l.reference} · ${l.hospitalName}`,
+        detail: `${l.siteName} · cases ${formatWindowCompact(l.useFrom, l.useTo, locale)}`,
+        link: '/approvals',
+        tone: 'action' as const,
+      })),
+    ),
+  };
 }
 
 /**
- * Home cards per role. The features behind them are not built yet, so every card shows its
- * empty state; each card will read its feature's data when that feature lands.
+ * A coordinator's confirmed loans by ship-by day, soonest first: overdue and due within two
+ * days are marked to act on (common practice: pack the day before). Null when none.
+ */
+export function shippingSummary(
+  confirmed: readonly Loan[],
+  today: string,
+  locale = 'en-US',
+): StepSummary | null {
+  const toShip = confirmed.filter((l) => l.state === 'confirmed').sort(byShipBy);
+  if (!toShip.length) return null;
+  const inTwoDays = addDays(today, 2);
+  return {
+    headline: `${plural(toShip.length, 'confirmed loan', 'confirmed loans')} to ship`,
+    ...limited(
+      toShip.map((l) => {
+        const shipBy = l.milestones.shipBy;
+        const late = shipBy < today;
+        const depots = [...new Set(l.units.map((u) => u.depotName))].join(', ');
+        return {
+          key: `loan-${l.id}`,
+          icon: late ? 'warning' : 'local_shipping',
+          text: `${l.reference} ${late ? 'was due to ship' : 'ships by'} ${formatDay(shipBy, 'medium', locale)}`,
+          detail: `${l.hospitalName}, ${l.siteName}${depots ? ` · from ${depots}` : ''}`,
+          link: `/loans/${l.id}`,
+          tone: late || shipBy <= inTwoDays ? ('action' as const) : ('info' as const),
+        };
+      }),
+    ),
+  };
+}
+
+/**
+ * A clinician's upcoming loans at their hospital (confirmed, on the way, or at the campus, whose
+ * last case day has not passed), by first case day. Null when none.
+ */
+export function arrivalsSummary(
+  loans: readonly Loan[],
+  today: string,
+  locale = 'en-US',
+): StepSummary | null {
+  const upcoming = loans
+    .filter((l) => ['confirmed', 'shipped', 'delivered'].includes(l.state) && l.useTo >= today)
+    .sort((a, b) => a.useFrom.localeCompare(b.useFrom) || a.id - b.id);
+  if (!upcoming.length) return null;
+  return {
+    headline: `${plural(upcoming.length, 'loan', 'loans')} coming to your campuses`,
+    ...limited(
+      upcoming.map((l) => {
+        const models = [...new Set(l.units.map((u) => u.modelName))].join(', ');
+        const firstCase = formatDay(l.useFrom, 'medium', locale);
+        const detail =
+          l.state === 'delivered'
+            ? `At ${l.siteName} · cases ${formatWindowCompact(l.useFrom, l.useTo, locale)}`
+            : `${l.state === 'shipped' ? 'On its way · ' : ''}Arrives by ${formatDay(l.milestones.deliverBy, 'medium', locale)} · first case ${firstCase}`;
+        return {
+          key: `loan-${l.id}`,
+          icon: l.state === 'shipped' ? 'local_shipping' : 'event',
+          text: `${models || l.reference} at ${l.siteName}`,
+          detail,
+          link: `/loans/${l.id}`,
+          tone: 'info' as const,
+        };
+      }),
+    ),
+  };
+}
+
+/**
+ * The admin's parked e-mails. `limit` is how many were asked for: a full page means there may be
+ * more ("200+"). Null when every e-mail was delivered.
+ */
+export function outboxSummary(parked: readonly OutboxMessage[], limit: number): StepSummary | null {
+  if (!parked.length) return null;
+  const count = parked.length >= limit ? `${parked.length}+` : String(parked.length);
+  return {
+    headline: `${count} ${parked.length === 1 ? 'e-mail' : 'e-mails'} could not be delivered`,
+    ...limited(
+      parked.map((m) => ({
+        key: `mail-${m.id}`,
+        icon: 'unsubscribe',
+        text: m.subject,
+        detail: `To ${m.to.join(', ')} · ${plural(m.attempts, 'attempt', 'attempts')}`,
+        link: '/outbox',
+        tone: 'action' as const,
+      })),
+    ),
+  };
+}
+
+/**
+ * Home cards per role. Cards with a `live` source read their data from the API; the others
+ * (features not built yet) show their empty state.
  */
 export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
   buyer: [
@@ -26,6 +232,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyMessage:
         'Find equipment to evaluate and ask for it on the dates your surgeons have cases.',
       action: { label: 'Find equipment', link: '/equipment' },
+      live: 'buyer-loans',
     },
     {
       key: 'proctoring',
@@ -45,6 +252,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyMessage:
         'When a loan is confirmed you’ll see here when the kit arrives and when the proctor comes.',
       action: { label: 'Open schedule', link: '/schedule' },
+      live: 'arrivals',
     },
     {
       key: 'case-log',
@@ -81,8 +289,9 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       icon: 'local_shipping',
       title: 'Shipments',
       emptyHeading: 'No shipments to pack today',
-      emptyMessage: 'Approved loans show up here as their ship-by date comes close.',
+      emptyMessage: 'Confirmed loans show up here, by the day they must ship.',
       action: { label: 'Open shipments', link: '/shipments' },
+      live: 'shipping',
     },
     {
       key: 'returns',
@@ -101,6 +310,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyHeading: 'No loan requests waiting for approval',
       emptyMessage: 'Hospitals’ requests for your units wait here for your decision.',
       action: { label: 'Open approvals', link: '/approvals' },
+      live: 'approvals',
     },
     {
       key: 'catalog',
@@ -112,6 +322,16 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
     },
   ],
   admin: [
+    {
+      key: 'outbox',
+      icon: 'outgoing_mail',
+      title: 'E-mail outbox',
+      emptyHeading: 'Every e-mail was delivered',
+      emptyMessage:
+        'When the mail server keeps refusing a message, it waits here for you to send it again.',
+      action: { label: 'Open outbox', link: '/outbox' },
+      live: 'outbox',
+    },
     {
       key: 'organisations',
       icon: 'apartment',

@@ -2,6 +2,7 @@ import {
   ChangeDetectionStrategy,
   Component,
   LOCALE_ID,
+  OnInit,
   computed,
   inject,
   input,
@@ -13,9 +14,9 @@ import { MatCardModule } from '@angular/material/card';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { RouterLink } from '@angular/router';
-import type { Loan, LoanEvent, LoanState, Site } from '@evalon/contracts';
-import { catchError, of, switchMap, tap } from 'rxjs';
+import { Router, RouterLink } from '@angular/router';
+import type { Loan, LoanEvent, LoanPayments, LoanState, Site } from '@evalon/contracts';
+import { catchError, distinctUntilChanged, filter, map, of, switchMap, tap } from 'rxjs';
 import { messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
 import { SessionStore } from '../../core/session-store';
@@ -33,7 +34,11 @@ import {
 } from '../../shared/milestone-timeline/milestone-timeline';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { CancelDialog, CancelDialogData } from './cancel-dialog';
+import { DepositReturn, DepositSection } from './deposit-section';
 import { LoanApi } from './loan-api';
+import { LoanDocuments } from './loan-documents';
+import { LoanPaymentsCard } from './loan-payments';
+import { PaymentsApi } from './payments-api';
 
 /** One line of the loan's history, ready to show. */
 interface HistoryEntry {
@@ -73,7 +78,10 @@ export function nextStepText(loan: Loan): string {
   imports: [
     Cautions,
     DayPipe,
+    DepositSection,
     EmptyState,
+    LoanDocuments,
+    LoanPaymentsCard,
     LoanStateChip,
     MatButtonModule,
     MatCardModule,
@@ -89,16 +97,29 @@ export function nextStepText(loan: Loan): string {
   styleUrl: './loan-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class LoanPage {
+export class LoanPage implements OnInit {
   private readonly api = inject(LoanApi);
+  private readonly paymentsApi = inject(PaymentsApi);
+  private readonly router = inject(Router);
   private readonly catalog = inject(CatalogApi);
-  private readonly session = inject(SessionStore);
+  private readonly sessionStore = inject(SessionStore);
   private readonly dialog = inject(MatDialog);
   private readonly notifier = inject(Notifier);
   private readonly locale = inject(LOCALE_ID);
 
   /** `:id` from the path. */
   readonly id = input.required<string>();
+  /** `?deposit=success|cancelled`: how the payment provider's hosted page sent the buyer back. */
+  readonly deposit = input<string | undefined>(undefined);
+  /** `?session=cs_…`: the checkout session of a successful payment. */
+  readonly session = input<string | undefined>(undefined);
+
+  /** The return from the hosted page, read once when the page opens. */
+  protected readonly depositReturn = signal<DepositReturn | null>(null);
+  protected readonly payments = signal<LoanPayments | null>(null);
+  protected readonly paymentsLoading = signal(false);
+  protected readonly paymentsError = signal<string | null>(null);
+  private readonly paymentsAttempt = signal(0);
 
   protected readonly loan = signal<Loan | null>(null);
   protected readonly loading = signal(true);
@@ -107,7 +128,49 @@ export class LoanPage {
   private readonly attempt = signal(0);
 
   /** Whether the person may open unit pages (Find equipment is for buyers). */
-  protected readonly canBrowse = computed(() => this.session.hasAnyRole(['buyer']));
+  protected readonly canBrowse = computed(() => this.sessionStore.hasAnyRole(['buyer']));
+  /** Whether the person is a buyer of the loan's hospital (secures the deposit, files documents). */
+  protected readonly isHospitalBuyer = computed(() => {
+    const loan = this.loan();
+    const user = this.sessionStore.user();
+    return (
+      !!loan &&
+      !!user?.memberships.some((m) => m.organisationId === loan.hospitalId && m.role === 'buyer')
+    );
+  });
+  /** Whether the person works at the loan's hospital (else: the lender, or the admin). */
+  protected readonly onHospitalSide = computed(() => {
+    const loan = this.loan();
+    const active = this.sessionStore.activeOrganisation();
+    return !loan || active?.id === loan.hospitalId;
+  });
+  /** Where "back" goes: the loans list for hospital people, Home for everyone else. */
+  protected readonly back = computed(() =>
+    this.onHospitalSide() ? { link: '/loans', label: 'All loans' } : { link: '/', label: 'Home' },
+  );
+  /** Whether the "Secure the deposit" section (or the outcome of a payment) shows. */
+  protected readonly showDeposit = computed(() => {
+    const loan = this.loan();
+    if (!loan) return false;
+    return (this.isHospitalBuyer() && loan.state === 'approved') || this.depositReturn() !== null;
+  });
+  /**
+   * Whether the payments card shows: once the loan is past the request (or money moved), except
+   * while the buyer's "Secure the deposit" section already says everything about it.
+   */
+  protected readonly showPaymentsCard = computed(() => {
+    const loan = this.loan();
+    if (!loan) return false;
+    const moved = (this.payments()?.payments.length ?? 0) > 0;
+    if (loan.state === 'requested') return moved;
+    return !(this.showDeposit() && loan.state === 'approved' && !moved);
+  });
+  /** Whether the buyer may still file documents (the server refuses stopped loans). */
+  protected readonly canUpload = computed(() => this.isHospitalBuyer() && !this.stopped());
+  /** IANA zone of each depot, for the deposit strategy estimate. */
+  protected readonly depotZones = computed(
+    () => new Map(this.sites().map((s) => [s.id, s.timeZone] as const)),
+  );
   /** Whether the server lets this person cancel the loan now. */
   protected readonly canCancel = computed(
     () => this.loan()?.allowedActions?.includes('cancel') ?? false,
@@ -142,7 +205,7 @@ export class LoanPage {
   });
 
   protected readonly history = computed<HistoryEntry[]>(() => {
-    const zone = this.session.timeZone();
+    const zone = this.sessionStore.timeZone();
     const events = [...(this.loan()?.events ?? [])].sort(
       (a, b) => b.at.localeCompare(a.at) || b.id - a.id,
     );
@@ -155,7 +218,7 @@ export class LoanPage {
         : `Request sent → ${loanStateLabels[event.toState]}`,
     }));
   });
-  protected readonly viewerZone = computed(() => this.session.timeZone());
+  protected readonly viewerZone = computed(() => this.sessionStore.timeZone());
 
   constructor() {
     this.catalog
@@ -183,6 +246,58 @@ export class LoanPage {
         this.loan.set(loan);
         this.loading.set(false);
       });
+
+    // Payments follow the loan: loaded once it is known, again when it changes state.
+    toObservable(
+      computed(() => {
+        const loan = this.loan();
+        return loan ? `${loan.id}:${loan.state}:${this.paymentsAttempt()}` : null;
+      }),
+    )
+      .pipe(
+        distinctUntilChanged(),
+        filter((key): key is string => key !== null),
+        map((key) => Number(key.split(':')[0])),
+        tap(() => {
+          this.paymentsLoading.set(true);
+          this.paymentsError.set(null);
+        }),
+        switchMap((id) =>
+          this.paymentsApi.payments(id).pipe(
+            catchError((error: unknown) => {
+              this.paymentsError.set(messageOf(error));
+              return of(null);
+            }),
+          ),
+        ),
+        takeUntilDestroyed(),
+      )
+      .subscribe((payments) => {
+        if (payments) this.payments.set(payments);
+        this.paymentsLoading.set(false);
+      });
+  }
+
+  ngOnInit(): void {
+    const outcome = this.deposit();
+    if (outcome !== 'success' && outcome !== 'cancelled') return;
+    this.depositReturn.set({ outcome, sessionId: this.session() ?? null });
+    // Take the outcome out of the address so a reload does not replay it.
+    void this.router.navigate([], {
+      queryParams: { deposit: null, session: null },
+      queryParamsHandling: 'merge',
+      replaceUrl: true,
+    });
+  }
+
+  /** The deposit was secured (or the loan otherwise changed): reload the loan and payments. */
+  protected depositChanged(): void {
+    this.retry();
+    this.paymentsAttempt.update((n) => n + 1);
+  }
+
+  protected retryPayments(): void {
+    this.paymentsAttempt.update((n) => n + 1);
   }
 
   protected retry(): void {

@@ -6,10 +6,16 @@ import { LoanRequest } from './loan-request';
 
 /**
  * `/loans`: the hospital's loans, a new request (buyers) and one loan. The parent route lets
- * buyers and clinicians in; clinicians read only.
+ * the hospital's buyers and clinicians in (clinicians read only), and the lender's people and
+ * the admin, who open single loans only.
  */
 export const loansRoutes: Routes = [
-  { path: '', component: LoanList, title: 'Loans' },
+  {
+    path: '',
+    component: LoanList,
+    canActivate: [roleGuard('buyer', 'clinician')],
+    title: 'Loans',
+  },
   {
     path: 'new',
     component: LoanRequest,

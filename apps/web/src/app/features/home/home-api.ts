@@ -1,0 +1,30 @@
+import { HttpClient, HttpParams } from '@angular/common/http';
+import { Injectable, inject } from '@angular/core';
+import type { Loan, LoanState, OutboxMessage } from '@evalon/contracts';
+import { Observable, map } from 'rxjs';
+
+/** Most loans Home reads at once (the contract's upper limit): enough to count them all. */
+export const HOME_LOAN_LIMIT = 500;
+/** Most parked e-mails Home reads (the contract's upper limit); a full page shows as "200+". */
+export const HOME_OUTBOX_LIMIT = 200;
+
+/** The reads behind Home's next steps. */
+@Injectable({ providedIn: 'root' })
+export class HomeApi {
+  private readonly http = inject(HttpClient);
+
+  /** Loans the person may see (their hospital's or lender's), optionally in one state. */
+  loans(state?: LoanState): Observable<Loan[]> {
+    let params = new HttpParams().set('limit', HOME_LOAN_LIMIT);
+    if (state) params = params.set('state', state);
+    return this.http.get<{ items: Loan[] }>('/api/loans', { params }).pipe(map((r) => r.items));
+  }
+
+  /** E-mails parked after their attempts ran out (platform admin). */
+  parkedEmails(): Observable<OutboxMessage[]> {
+    const params = new HttpParams().set('status', 'parked').set('limit', HOME_OUTBOX_LIMIT);
+    return this.http
+      .get<{ items: OutboxMessage[] }>('/api/admin/outbox', { params })
+      .pipe(map((r) => r.items));
+  }
+}

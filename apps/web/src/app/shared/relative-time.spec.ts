@@ -1,0 +1,46 @@
+import { dueIn, timeAgo } from './relative-time';
+
+// Expected words are what the ECMA-402 Intl.RelativeTimeFormat API prints for en-US (the
+// standard's `numeric: 'auto'` turns −1 day into "yesterday"); the unit choice is ours.
+describe('timeAgo', () => {
+  const now = new Date('2026-12-02T12:00:00.000Z');
+
+  it('uses the largest whole unit up to a week', () => {
+    expect(timeAgo('2026-12-02T11:59:30.000Z', now)).toBe('just now');
+    expect(timeAgo('2026-12-02T11:55:00.000Z', now)).toBe('5 minutes ago');
+    expect(timeAgo('2026-12-02T09:30:00.000Z', now)).toBe('2 hours ago');
+    expect(timeAgo('2026-12-01T10:00:00.000Z', now)).toBe('yesterday');
+    expect(timeAgo('2026-11-28T12:00:00.000Z', now)).toBe('4 days ago');
+  });
+
+  it('gives the date for older times, with the year only when it differs', () => {
+    expect(timeAgo('2026-11-02T12:00:00.000Z', now)).toBe('Nov 2');
+    expect(timeAgo('2025-11-02T12:00:00.000Z', now)).toBe('Nov 2, 2025');
+  });
+
+  it('says nothing for an unreadable time', () => {
+    expect(timeAgo('not a time', now)).toBe('');
+  });
+});
+
+describe('dueIn', () => {
+  const now = new Date('2026-12-02T12:00:00.000Z');
+
+  it('counts whole days from 48 hours, never rounding up', () => {
+    expect(dueIn('2026-12-04T12:00:00.000Z', now)).toBe('due in 2 days');
+    // 71 h 59 min left: still 2 whole days, not 3.
+    expect(dueIn('2026-12-05T11:59:00.000Z', now)).toBe('due in 2 days');
+  });
+
+  it('counts hours below 48 hours and minutes below one hour', () => {
+    expect(dueIn('2026-12-04T11:00:00.000Z', now)).toBe('due in 47 hours');
+    expect(dueIn('2026-12-02T13:00:00.000Z', now)).toBe('due in 1 hour');
+    expect(dueIn('2026-12-02T12:45:00.000Z', now)).toBe('due in 45 minutes');
+    expect(dueIn('2026-12-02T12:00:20.000Z', now)).toBe('due in 1 minute');
+  });
+
+  it('is null once the deadline has passed', () => {
+    expect(dueIn('2026-12-02T12:00:00.000Z', now)).toBeNull();
+    expect(dueIn('2026-12-01T12:00:00.000Z', now)).toBeNull();
+  });
+});
