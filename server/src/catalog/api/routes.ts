@@ -1,4 +1,4 @@
-import multer from 'multer';
+import { singleUpload } from '../../http/single-upload';
 import type { RequestHandler } from 'express';
 import {
   depotInput,
@@ -30,7 +30,6 @@ import {
   unitUpdate,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
-import { AppError } from '../../http/errors';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import type { CatalogDeps } from '../domain/deps';
 import {
@@ -56,42 +55,17 @@ const error = (description: string) => ({ description, schema: errorBody });
 const fleetManagers = { roles: ['fleet_manager'] } as const;
 const lenderStaff = { roles: ['fleet_manager', 'coordinator'] } as const;
 
-/**
- * One photo from a multipart form field `photo`, kept in memory (at most 5 MB, one file), with
- * multer's errors turned into ours: 413 for too large, 422 for a missing or extra file.
- */
+/** One photo from the multipart field `photo` (at most 5 MB). */
 function photoUpload(): RequestHandler {
-  const upload = multer({
-    storage: multer.memoryStorage(),
-    limits: { fileSize: maxPhotoBytes, files: 1, fields: 5, parts: 10 },
-  }).single('photo');
-  return (req, res, next) => {
-    upload(req, res, (err: unknown) => {
-      if (!err) {
-        if (!req.file) {
-          return next(
-            AppError.field('photo_missing', 'photo', 'Attach the photo in the form field “photo”.'),
-          );
-        }
-        return next();
-      }
-      if (err instanceof multer.MulterError) {
-        if (err.code === 'LIMIT_FILE_SIZE') {
-          return next(
-            new AppError(
-              413,
-              'photo_too_large',
-              'The photo is larger than 5 MB; use a smaller one.',
-            ),
-          );
-        }
-        return next(
-          AppError.field('invalid_upload', 'photo', `The upload was refused: ${err.message}.`),
-        );
-      }
-      next(err);
-    });
-  };
+  return singleUpload({
+    field: 'photo',
+    maxBytes: maxPhotoBytes,
+    missing: { code: 'photo_missing', message: 'Attach the photo in the form field “photo”.' },
+    tooLarge: {
+      code: 'photo_too_large',
+      message: 'The photo is larger than 5 MB; use a smaller one.',
+    },
+  });
 }
 
 /** `/api/lenders/:orgId/...`: a lender's depots and shipping settings. */

@@ -1,5 +1,5 @@
+import { singleUpload } from '../../http/single-upload';
 import express, { type RequestHandler } from 'express';
-import multer from 'multer';
 import { z } from 'zod';
 import {
   creditAgreementList,
@@ -74,42 +74,17 @@ export function paymentWebhookRoutes(deps: PaymentsDeps, catalogue: CatalogueEnt
   return api;
 }
 
-/**
- * One PDF from the multipart field `file` (≤ 10 MB, one file), kept in memory, with multer's
- * errors in our words: 413 for too large, 422 for a missing or extra file.
- */
+/** One PDF from the multipart field `file` (at most 10 MB). */
 function documentUpload(): RequestHandler {
-  const upload = multer({
-    storage: multer.memoryStorage(),
-    limits: { fileSize: maxLoanDocumentBytes, files: 1, fields: 5, parts: 10 },
-  }).single('file');
-  return (req, res, next) => {
-    upload(req, res, (err: unknown) => {
-      if (!err) {
-        if (!req.file) {
-          return next(
-            AppError.field('file_missing', 'file', 'Attach the PDF in the form field “file”.'),
-          );
-        }
-        return next();
-      }
-      if (err instanceof multer.MulterError) {
-        if (err.code === 'LIMIT_FILE_SIZE') {
-          return next(
-            new AppError(
-              413,
-              'document_too_large',
-              'The file is larger than 10 MB; attach a smaller PDF.',
-            ),
-          );
-        }
-        return next(
-          AppError.field('invalid_upload', 'file', `The upload was refused: ${err.message}.`),
-        );
-      }
-      next(err);
-    });
-  };
+  return singleUpload({
+    field: 'file',
+    maxBytes: maxLoanDocumentBytes,
+    missing: { code: 'file_missing', message: 'Attach the PDF in the form field “file”.' },
+    tooLarge: {
+      code: 'document_too_large',
+      message: 'The file is larger than 10 MB; attach a smaller PDF.',
+    },
+  });
 }
 
 /** `/api/loans/:id/...`: deposit, payments, reconciliation, documents. */
