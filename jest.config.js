@@ -31,6 +31,9 @@ module.exports = {
       transformIgnorePatterns,
       globalSetup: '<rootDir>/server/test/global-setup.ts',
       setupFiles: ['<rootDir>/server/test/env.ts'],
+      // API tests talk to a real MariaDB (and sometimes real SMTP) on a 2-core machine that may
+      // be busy with other suites: Jest's 5 s default is too tight for them.
+      testTimeout: 30_000,
     },
     {
       // Cross-cutting suites (outages, crashes, duplicate deliveries) against real processes.

@@ -19,7 +19,7 @@ interface CaughtMail {
   to: { address: string }[];
 }
 
-async function waitForMail(to: string, timeoutMs = 5_000): Promise<CaughtMail> {
+async function waitForMail(to: string, timeoutMs = 20_000): Promise<CaughtMail> {
   const until = Date.now() + timeoutMs;
   while (Date.now() < until) {
     const list = (await (await fetch(`${inbox}/api/email`)).json()) as CaughtMail[];
