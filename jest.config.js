@@ -7,7 +7,16 @@ const tsTransform = {
 };
 const moduleNameMapper = { '^@evalon/([a-z0-9-]+)$': '<rootDir>/packages/$1/src/index.ts' };
 // ESM-only dependencies that Jest's CommonJS runtime must have transpiled.
-const esmOnly = ['@borewit', 'file-type', 'ical-generator', 'strtok3', 'token-types', 'peek-readable', 'uint8array-extras', '@tokenizer'];
+const esmOnly = [
+  '@borewit',
+  'file-type',
+  'ical-generator',
+  'strtok3',
+  'token-types',
+  'peek-readable',
+  'uint8array-extras',
+  '@tokenizer',
+];
 const transformIgnorePatterns = [`node_modules/(?!(${esmOnly.join('|')})/)`];
 
 module.exports = {
@@ -47,6 +56,14 @@ module.exports = {
       globalSetup: '<rootDir>/server/test/global-setup.ts',
       setupFiles: ['<rootDir>/server/test/env.ts'],
       testTimeout: 120_000,
+    },
+    {
+      // Repository-wide guards (retired demo names, ...): plain file reads, no services.
+      displayName: 'guards',
+      rootDir: __dirname,
+      testEnvironment: 'node',
+      testMatch: ['<rootDir>/tests/guards/**/*.test.ts'],
+      transform: tsTransform,
     },
     {
       displayName: 'infra',

@@ -78,25 +78,25 @@ describe('demo data', () => {
       kind: 'platform',
       organisation: 'Evalon Marketplace',
     });
-    expect(by.get('buyer@harbourview.example')).toMatchObject({
+    expect(by.get('buyer@velmora.example')).toMatchObject({
       role: 'buyer',
       kind: 'hospital',
-      organisation: 'Harbourview Health',
+      organisation: 'Velmora Health',
     });
-    expect(by.get('clinician@harbourview.example')).toMatchObject({
+    expect(by.get('clinician@velmora.example')).toMatchObject({
       role: 'clinician',
       kind: 'hospital',
     });
-    expect(by.get('buyer@rheinau.example')).toMatchObject({
+    expect(by.get('buyer@orlenbach.example')).toMatchObject({
       role: 'buyer',
-      organisation: 'Klinikum Rheinau',
+      organisation: 'Klinikum Orlenbach',
     });
-    expect(by.get('fleet@kestrel.example')).toMatchObject({
+    expect(by.get('fleet@quorvel.example')).toMatchObject({
       role: 'fleet_manager',
       kind: 'lender',
-      organisation: 'Kestrel Surgical',
+      organisation: 'Quorvel Surgical',
     });
-    expect(by.get('coordinator@kestrel.example')).toMatchObject({
+    expect(by.get('coordinator@quorvel.example')).toMatchObject({
       role: 'coordinator',
       kind: 'lender',
     });
@@ -121,11 +121,11 @@ describe('demo data', () => {
       'SELECT s.name, s.kind, s.time_zone, s.latitude, s.longitude, s.cutoff_time, o.name AS org FROM sites s JOIN organisations o ON o.id = s.organisation_id',
     );
     expect(sites.every((s) => isTimeZone(s.time_zone))).toBe(true);
-    const harbourview = sites
-      .filter((s) => s.org === 'Harbourview Health')
+    const velmora = sites
+      .filter((s) => s.org === 'Velmora Health')
       .map((s) => s.time_zone)
       .sort();
-    expect(harbourview).toEqual(['America/Chicago', 'America/New_York']);
+    expect(velmora).toEqual(['America/Chicago', 'America/New_York']);
     const depots = sites.filter((s) => s.kind === 'depot');
     expect(depots.map((s) => s.time_zone).sort()).toEqual([
       'America/Los_Angeles',
@@ -134,7 +134,7 @@ describe('demo data', () => {
     ]);
     expect(depots.every((s) => /^\d{2}:\d{2}$/.test(s.cutoff_time ?? ''))).toBe(true);
     // Boston-like campus: north-eastern US (roughly 40–45°N, 67–75°W).
-    const boston = sites.find((s) => s.name === 'Harbourview Medical Center')!;
+    const boston = sites.find((s) => s.name === 'Velmora East Campus')!;
     expect(Number(boston.latitude)).toBeGreaterThan(40);
     expect(Number(boston.latitude)).toBeLessThan(45);
     expect(Number(boston.longitude)).toBeGreaterThan(-75);
@@ -148,37 +148,37 @@ describe('demo data', () => {
       mailer: new RecordingMailer(),
       logger: createLogger('silent'),
     });
-    const me = await signedInClient(app, 'buyer@harbourview.example', demoPassword);
+    const me = await signedInClient(app, 'buyer@velmora.example', demoPassword);
     const members = await me.agent.get('/api/auth/me').expect(200);
-    const harbourviewId = members.body.user.memberships[0].organisationId;
-    const list = await me.agent.get(`/api/organisations/${harbourviewId}/members`).expect(200);
+    const velmoraId = members.body.user.memberships[0].organisationId;
+    const list = await me.agent.get(`/api/organisations/${velmoraId}/members`).expect(200);
     const states = (list.body.items as { email: string; active: boolean; pending: boolean }[]).map(
       (m) => [m.email, m.active, m.pending],
     );
     expect(states).toEqual(
       expect.arrayContaining([
-        ['or.nurse@harbourview.example', true, true],
-        ['former.clinician@harbourview.example', false, false],
+        ['or.nurse@velmora.example', true, true],
+        ['former.clinician@velmora.example', false, false],
       ]),
     );
     const client = await anonymousClient(app);
     const deactivated = await client.agent
       .post('/api/auth/login')
       .set('X-XSRF-TOKEN', client.csrf)
-      .send({ email: 'former.clinician@harbourview.example', password: demoPassword })
+      .send({ email: 'former.clinician@velmora.example', password: demoPassword })
       .expect(401);
     expect(deactivated.body.error.code).toBe('account_deactivated');
     await client.agent
       .post('/api/auth/login')
       .set('X-XSRF-TOKEN', client.csrf)
-      .send({ email: 'or.nurse@harbourview.example', password: demoPassword })
+      .send({ email: 'or.nurse@velmora.example', password: demoPassword })
       .expect(401);
   });
 
-  it('lists Kestrel’s catalogue: models in every category, 30+ units over 3 depots, valid GTINs', async () => {
+  it('lists Quorvel’s catalogue: models in every category, 30+ units over 3 depots, valid GTINs', async () => {
     const models: { id: number; category: string; name: string }[] = await dataSource.query(
       `SELECT m.id, m.category, m.name FROM models m JOIN organisations o ON o.id = m.lender_id
-        WHERE o.name = 'Kestrel Surgical'`,
+        WHERE o.name = 'Quorvel Surgical'`,
     );
     expect(models.length).toBeGreaterThanOrEqual(6);
     expect(new Set(models.map((m) => m.category))).toEqual(new Set(modelCategories));
@@ -187,9 +187,9 @@ describe('demo data', () => {
         GROUP BY d.name ORDER BY d.name`,
     );
     expect(perDepot.map((r) => r.depot)).toEqual([
-      'Kestrel East Depot',
-      'Kestrel Europe Depot',
-      'Kestrel West Depot',
+      'Quorvel East Depot',
+      'Quorvel Europe Depot',
+      'Quorvel West Depot',
     ]);
     expect(perDepot.reduce((sum, r) => sum + Number(r.n), 0)).toBeGreaterThanOrEqual(30);
     // GS1 check digits (GS1 General Specifications §7.9.1) of every packing-list GTIN and UDI.
@@ -198,7 +198,7 @@ describe('demo data', () => {
     );
     expect(gtins.length).toBeGreaterThan(20);
     expect(gtins.filter((g) => !isValidGtin(g.gtin))).toEqual([]);
-    // The robotic platform works with the flexible endoscopes and the laser (and back).
+    // The robotic platform compatible with the flexible endoscopes and the laser (and back).
     const robot = models.find((m) => m.category === 'robotic_platform')!;
     const partners: { category: string }[] = await dataSource.query(
       `SELECT m.category FROM model_compatibility c JOIN models m ON m.id = c.compatible_model_id
@@ -222,10 +222,10 @@ describe('demo data', () => {
     expect(new Set(loans.map((l) => l.state))).toEqual(
       new Set(['requested', 'approved', 'declined', 'cancelled']),
     );
-    expect(loans.filter((l) => l.hospital === 'Harbourview Health').length).toBeGreaterThanOrEqual(
+    expect(loans.filter((l) => l.hospital === 'Velmora Health').length).toBeGreaterThanOrEqual(
       3,
     );
-    expect(loans.filter((l) => l.hospital === 'Klinikum Rheinau').length).toBeGreaterThanOrEqual(3);
+    expect(loans.filter((l) => l.hospital === 'Klinikum Orlenbach').length).toBeGreaterThanOrEqual(3);
     const holds: { kind: string; start: string; loan_state: string | null }[] =
       await dataSource.query(
         `SELECT h.kind, CAST(h.start_date AS CHAR) AS start, l.state AS loan_state

@@ -59,7 +59,7 @@ describe('Continue with Google (local stand-in)', () => {
     expect(res.status).toBe(200);
     const html = await res.text();
     expect(html).toContain('<title>Evalon test sign-in (local stand-in for Google)</title>');
-    expect(html).toContain('buyer@harbourview.example');
+    expect(html).toContain('buyer@velmora.example');
     // The original request rides along in hidden fields.
     expect(html).toContain('name="state" value="s1"');
   });

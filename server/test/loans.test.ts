@@ -449,8 +449,8 @@ describe('who may see and change a loan', () => {
   });
 
   it('another hospital’s buyer gets 404 for reading and cancelling, and sees none of it in lists', async () => {
-    const rheinau = await makeHospital(t.dataSource, places.germanCampus);
-    const stranger = await sign(rheinau.buyer);
+    const orlenbach = await makeHospital(t.dataSource, places.germanCampus);
+    const stranger = await sign(orlenbach.buyer);
     const read = await stranger.agent.get(`/api/loans/${loanId}`).expect(404);
     expect(read.body.error.code).toBe('loan_not_found');
     await post(stranger, `/api/loans/${loanId}/cancel`, { reason: 'Not mine' }).expect(404);

@@ -27,7 +27,7 @@ beforeEach(async () => {
 function email(overrides: Partial<OutboxEmail> = {}): OutboxEmail {
   return {
     to: `outbox.${unique()}@test.example`,
-    subject: 'Loan EV-2027-0042 confirmed',
+    subject: 'Loan EV-2027-000042 confirmed',
     html: '<p>Confirmed.</p>',
     text: 'Confirmed.',
     ...overrides,

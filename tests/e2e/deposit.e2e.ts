@@ -12,13 +12,13 @@ import { escapeRegExp, messagesTo, paymentsFakeUrl, signIn, type InboxMessage } 
  *
  * People and organisations come from the demo data (server/src/demo/demo-data.ts).
  */
-const buyer = { email: 'buyer@harbourview.example', name: 'Dana Whitcombe' };
-const fleet = { email: 'fleet@kestrel.example', name: 'Marcus Tennant-Hale' };
-const coordinator = { email: 'coordinator@kestrel.example', name: 'Priya Ramaswamy-Cole' };
-const campus = 'Harbourview Medical Center';
+const buyer = { email: 'buyer@velmora.example', name: 'Dana Whitcombe' };
+const fleet = { email: 'fleet@quorvel.example', name: 'Marcus Tennant-Hale' };
+const coordinator = { email: 'coordinator@quorvel.example', name: 'Priya Ramaswamy-Cole' };
+const campus = 'Velmora East Campus';
 /** A model with five units across the depots, none of them booked far ahead in the demo data. */
-const model = 'Kestrel ClearPath 11 Fr flexible cystoscope';
-const keyword = 'ClearPath';
+const model = 'Quorvel C11 11 Fr flexible cystoscope';
+const keyword = 'cystoscope';
 
 const port = process.env.EVALON_E2E_PORT ?? '8180';
 const screenshots = path.resolve(__dirname, '../../docs/screenshots');

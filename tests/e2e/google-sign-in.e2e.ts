@@ -19,13 +19,13 @@ test.describe('signing in with Google', () => {
     await expect(
       page.getByRole('heading', { level: 1, name: 'Evalon test sign-in' }),
     ).toBeVisible();
-    await page.getByRole('button', { name: /clinician@harbourview\.example/ }).click();
+    await page.getByRole('button', { name: /clinician@velmora\.example/ }).click();
 
     await expectHome(page, 'Rafael Oyelaran');
     const me = await page.request.get('/api/auth/me');
     expect(me.status()).toBe(200);
     expect(((await me.json()) as { user: { email: string } }).user.email).toBe(
-      'clinician@harbourview.example',
+      'clinician@velmora.example',
     );
   });
 

@@ -16,15 +16,15 @@ import {
   type NewPerson,
 } from './helpers';
 
-const buyer = { email: 'buyer@harbourview.example', name: 'Dana Whitcombe' };
-const hospital = 'Harbourview Health';
+const buyer = { email: 'buyer@velmora.example', name: 'Dana Whitcombe' };
+const hospital = 'Velmora Health';
 
 /** A new person for one test: unique address (and name) per run, so reruns never collide. */
 function newPerson(first: string): NewPerson {
   const suffix = uniqueSuffix();
   return {
     name: `${first} Marwick ${suffix}`,
-    email: `new.person+${suffix}@harbourview.example`,
+    email: `new.person+${suffix}@velmora.example`,
     password: `Wide-lagoon-${suffix}`,
   };
 }

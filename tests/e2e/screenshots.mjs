@@ -80,7 +80,7 @@ async function main() {
       await page.getByRole('heading', { level: 1, name: 'Sign in to Evalon' }).waitFor();
       await shoot(page, 'sign-in.png');
 
-      await signIn(page, 'buyer@harbourview.example', 'Dana');
+      await signIn(page, 'buyer@velmora.example', 'Dana');
       await shoot(page, 'home-buyer.png');
 
       const nav = page.getByRole('navigation', { name: 'Main' });
@@ -92,7 +92,7 @@ async function main() {
       await shoot(page, 'members.png');
     });
     await withPerson(browser, async (page) => {
-      await signIn(page, 'fleet@kestrel.example', 'Marcus');
+      await signIn(page, 'fleet@quorvel.example', 'Marcus');
       await shoot(page, 'home-fleet.png');
     });
     await withPerson(browser, async (page) => {

@@ -30,37 +30,37 @@ const roleCases: RoleCase[] = [
     cards: ['E-mail outbox', 'Organisations', 'Audit', 'Members'],
   },
   {
-    email: 'buyer@harbourview.example',
+    email: 'buyer@velmora.example',
     name: 'Dana Whitcombe',
-    context: 'Harbourview Health · Hospital network · Hospital buyer',
+    context: 'Velmora Health · Hospital network · Hospital buyer',
     navigation: ['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members'],
     cards: ['Evaluation loans', 'Proctoring visits', 'Members'],
   },
   {
-    email: 'clinician@harbourview.example',
+    email: 'clinician@velmora.example',
     name: 'Rafael Oyelaran',
-    context: 'Harbourview Health · Hospital network · Clinician',
+    context: 'Velmora Health · Hospital network · Clinician',
     navigation: ['Home', 'Loans', 'Schedule', 'Case log'],
     cards: ['Arrivals and visits', 'Case log'],
   },
   {
-    email: 'buyer@rheinau.example',
+    email: 'buyer@orlenbach.example',
     name: 'Friederike Albrecht-Sommer',
-    context: 'Klinikum Rheinau · Hospital network · Hospital buyer',
+    context: 'Klinikum Orlenbach · Hospital network · Hospital buyer',
     navigation: ['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members'],
     cards: ['Evaluation loans', 'Proctoring visits', 'Members'],
   },
   {
-    email: 'fleet@kestrel.example',
+    email: 'fleet@quorvel.example',
     name: 'Marcus Tennant-Hale',
-    context: 'Kestrel Surgical · Lender · Fleet manager',
+    context: 'Quorvel Surgical · Lender · Fleet manager',
     navigation: ['Home', 'Catalog', 'Approvals', 'Credit agreements', 'Units', 'Members'],
     cards: ['Loan requests', 'Catalog', 'Members'],
   },
   {
-    email: 'coordinator@kestrel.example',
+    email: 'coordinator@quorvel.example',
     name: 'Priya Ramaswamy-Cole',
-    context: 'Kestrel Surgical · Lender · Logistics coordinator',
+    context: 'Quorvel Surgical · Lender · Logistics coordinator',
     navigation: ['Home', 'Shipments', 'Units'],
     cards: ['Shipments', 'Returns'],
   },
@@ -110,7 +110,7 @@ test.describe('signing in and out with a password', () => {
   }) => {
     await page.goto('/profile');
     await expect(page).toHaveURL(/\/sign-in\?returnUrl=%2Fprofile$/);
-    await page.getByLabel('E-mail address').fill('clinician@harbourview.example');
+    await page.getByLabel('E-mail address').fill('clinician@velmora.example');
     await page.getByLabel('Password', { exact: true }).fill(demoPassword);
     await page.getByRole('button', { name: 'Sign in', exact: true }).click();
     await expect(page).toHaveURL(/\/profile$/);
@@ -135,7 +135,7 @@ test('the app stylesheet applies, so icons draw as icons and not as their names'
 });
 
 test('a wrong password shows a readable message and stays on sign-in', async ({ page }) => {
-  await submitSignIn(page, 'buyer@rheinau.example', 'not-the-password');
+  await submitSignIn(page, 'buyer@orlenbach.example', 'not-the-password');
 
   await expect(page.getByRole('alert')).toContainText(
     'That e-mail address and password don’t match. Check both and try again.',
@@ -144,7 +144,7 @@ test('a wrong password shows a readable message and stays on sign-in', async ({ 
   await expect(page.getByRole('heading', { level: 1, name: 'Sign in to Evalon' })).toBeVisible();
   // The password is cleared for the next try; the address stays.
   await expect(page.getByLabel('Password', { exact: true })).toHaveValue('');
-  await expect(page.getByLabel('E-mail address')).toHaveValue('buyer@rheinau.example');
+  await expect(page.getByLabel('E-mail address')).toHaveValue('buyer@orlenbach.example');
   const me = await page.request.get('/api/auth/me');
   expect(me.status()).toBe(401);
 
@@ -159,7 +159,7 @@ test('asking for a password reset shows the same neutral confirmation for any ad
 }) => {
   // Whether an address has an account must not show (OWASP Authentication Cheat Sheet,
   // "Authentication and Error Messages"): a known and an unknown address get the same words.
-  for (const email of ['clinician@rheinau.example', `nobody.${Date.now()}@unknown.example`]) {
+  for (const email of ['clinician@orlenbach.example', `nobody.${Date.now()}@unknown.example`]) {
     await page.goto('/sign-in');
     await page.getByRole('link', { name: 'Forgot your password?' }).click();
     await expect(

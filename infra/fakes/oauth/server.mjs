@@ -17,11 +17,11 @@ const host = process.env.EVALON_OAUTH_HOST ?? '127.0.0.1';
 /** Demo accounts offered as one-click buttons (the invented demo scenario). */
 const demoAccounts = [
   ['admin@evalon.example', 'Noor Lindqvist'],
-  ['buyer@harbourview.example', 'Dana Whitcombe'],
-  ['clinician@harbourview.example', 'Rafael Oyelaran'],
-  ['buyer@rheinau.example', 'Friederike Albrecht-Sommer'],
-  ['fleet@kestrel.example', 'Marcus Tennant-Hale'],
-  ['coordinator@kestrel.example', 'Priya Ramaswamy-Cole'],
+  ['buyer@velmora.example', 'Dana Whitcombe'],
+  ['clinician@velmora.example', 'Rafael Oyelaran'],
+  ['buyer@orlenbach.example', 'Friederike Albrecht-Sommer'],
+  ['fleet@quorvel.example', 'Marcus Tennant-Hale'],
+  ['coordinator@quorvel.example', 'Priya Ramaswamy-Cole'],
   ['proctor@proctors.example', 'Helena Osterby'],
 ];
 const knownNames = new Map(demoAccounts);

@@ -251,7 +251,7 @@ export const modelInput = z
     currency,
     depositRule: depositRule,
     packingList: z.array(packingItem).max(200).default([]),
-    /** Other models of the same lender this one works with; kept symmetric by the server. */
+    /** Other models of the same lender this one is compatible with; kept symmetric by the server. */
     compatibleModelIds: z.array(z.number().int().positive()).max(100).default([]),
   })
   .refine((m) => m.depositRule.currency === m.currency, {

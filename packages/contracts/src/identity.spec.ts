@@ -18,7 +18,7 @@ describe('identity contracts', () => {
   });
 
   it('normalises e-mail addresses to trimmed lower case', () => {
-    expect(email.parse('  Buyer@Harbourview.EXAMPLE ')).toBe('buyer@harbourview.example');
+    expect(email.parse('  Buyer@Velmora.EXAMPLE ')).toBe('buyer@velmora.example');
     expect(email.safeParse('not-an-address').success).toBe(false);
   });
 

@@ -97,7 +97,7 @@ export const depositRefreshRequest = z
     /** The `session` query parameter of the success redirect, if the page has it. */
     sessionId: z
       .string()
-      .regex(/^cs_[A-Za-z0-9_]{1,250}$/, 'Not a checkout session id.')
+      .regex(/^cs_[A-Za-z0-9_]{1,250}$/, 'Not a payment page reference.')
       .optional(),
   })
   .meta({ id: 'DepositRefreshRequest' });

@@ -88,7 +88,7 @@ describe('buildLoanInvite: RFC 5545 / RFC 5546 requirements, read back with ical
       for (const name of ['dtstamp', 'dtstart', 'summary', 'uid']) {
         expect(event.getAllProperties(name)).toHaveLength(1);
       }
-      expect(String(event.getFirstPropertyValue('summary'))).toContain('EV-2027-0042');
+      expect(String(event.getFirstPropertyValue('summary'))).toContain('EV-2027-000042');
     }
   });
 

@@ -253,7 +253,7 @@ describe('escaping hostile values', () => {
       expect(mail.subject).not.toMatch(/[\r\n]/);
     }
     expect(loanRequested({ loan: crlf, publicUrl: PUBLIC_URL }, NEW_YORK).subject).toBe(
-      'New loan request EV-2027-0042 from Clinic Bcc: someone@elsewhere.example',
+      'New loan request EV-2027-000042 from Clinic Bcc: someone@elsewhere.example',
     );
   });
 });
@@ -378,7 +378,7 @@ describe('calendar attachments', () => {
     );
     expect(mail.attachments).toHaveLength(1);
     const [ics] = mail.attachments ?? [];
-    expect(ics.filename).toBe('evalon-loan-EV-2027-0042.ics');
+    expect(ics.filename).toBe('evalon-loan-EV-2027-000042.ics');
     const { type, params } = mediaType(ics.contentType);
     expect(type).toBe('text/calendar');
     expect(params.method).toBe('REQUEST');
@@ -386,7 +386,7 @@ describe('calendar attachments', () => {
     const calendar = new ICAL.Component(ICAL.parse(ics.content));
     expect(calendar.getFirstPropertyValue('method')).toBe(params.method);
     expect(calendar.getAllSubcomponents('vevent')).toHaveLength(2);
-    expect(mail.text).toContain('evalon-loan-EV-2027-0042.ics');
+    expect(mail.text).toContain('evalon-loan-EV-2027-000042.ics');
   });
 
   it('every recipient gets the same invite revision (same UIDs, DTSTAMP and SEQUENCE)', () => {
@@ -424,7 +424,7 @@ describe('calendar attachments', () => {
 describe('content of each template', () => {
   it('loanRequested shows requester, deposit, both date groups, the note and a review link', () => {
     const mail = loanRequested({ loan: makeLoan(), publicUrl: PUBLIC_URL }, BERLIN);
-    expect(mail.subject).toBe('New loan request EV-2027-0042 from Quillfield Teaching Hospital');
+    expect(mail.subject).toBe('New loan request EV-2027-000042 from Quillfield Teaching Hospital');
     expect(mail.text).toContain('Requested by: Dana Orrin');
     expect(mail.text).toContain('Deposit (computed): US$2,500.00'); // en-GB writes USD as US$
     expect(mail.text).toContain('DATES AT THE LENDER’S DEPOT');
@@ -447,7 +447,7 @@ describe('content of each template', () => {
     expect(mail.text).toContain('contaminated on arrival');
     expect(mail.text).toContain('de-identified');
     expect(mail.subject).toBe(
-      'Loan EV-2027-0042 confirmed: arrives at East Campus by Thursday, March 11, 2027',
+      'Loan EV-2027-000042 confirmed: arrives at East Campus by Thursday, March 11, 2027',
     );
   });
 

@@ -22,7 +22,7 @@ import {
 
 /** A file attached to a message, in the shape nodemailer takes. */
 export interface EmailAttachment {
-  /** File name shown to the reader, e.g. `evalon-loan-EV-2027-0042.ics`. */
+  /** File name shown to the reader, e.g. `evalon-loan-EV-2027-000042.ics`. */
   filename: string;
   /** MIME type with parameters, e.g. `text/calendar; charset=utf-8; method=REQUEST`. */
   contentType: string;

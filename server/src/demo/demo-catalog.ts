@@ -1,7 +1,7 @@
 import { toGtin14, type ModelCategory, type UnitStatus } from '@evalon/contracts';
 
 /**
- * The demo catalogue of the invented lender Kestrel Surgical: models, units over its three
+ * The demo catalogue of the invented lender Quorvel Surgical: models, units over its three
  * depots, maintenance and loans placed relative to the day the demo is loaded, so calendars
  * look lived-in whenever it is loaded. Every name here is made up.
  *
@@ -46,7 +46,7 @@ const item = (name: string, gtin: number | null, quantity = 1, serialised = fals
 export const demoModels: DemoModel[] = [
   {
     key: 'robot',
-    name: 'Kestrel Pathfinder R2 robotic platform',
+    name: 'Quorvel R2 robotic platform',
     category: 'robotic_platform',
     description:
       'Four-arm robotic platform for minimally invasive urology and general surgery: ' +
@@ -66,7 +66,7 @@ export const demoModels: DemoModel[] = [
   },
   {
     key: 'uretero',
-    name: 'Kestrel FlexView 7.5 Fr digital ureteroscope',
+    name: 'Quorvel U75 7.5 Fr digital ureteroscope',
     category: 'flexible_endoscope',
     description:
       'Reusable flexible digital ureteroscope, 7.5 Fr tip, 270° two-way deflection, ' +
@@ -83,7 +83,7 @@ export const demoModels: DemoModel[] = [
   },
   {
     key: 'cysto',
-    name: 'Kestrel ClearPath 11 Fr flexible cystoscope',
+    name: 'Quorvel C11 11 Fr flexible cystoscope',
     category: 'flexible_endoscope',
     description:
       'Reusable flexible video cystoscope, 11 Fr outer diameter, for office and OR cystoscopy ' +
@@ -99,7 +99,7 @@ export const demoModels: DemoModel[] = [
   },
   {
     key: 'laser',
-    name: 'Kestrel Lumen TFL 60 W thulium fibre laser',
+    name: 'Quorvel T60 60 W thulium fibre laser',
     category: 'laser',
     description:
       'Thulium fibre laser console, up to 60 W, for stone dusting and soft-tissue work; ' +
@@ -117,11 +117,11 @@ export const demoModels: DemoModel[] = [
   },
   {
     key: 'tower',
-    name: 'Kestrel Aurora 4K imaging tower',
+    name: 'Quorvel V4 4K imaging tower',
     category: 'imaging',
     description:
       '4K camera control unit, LED light source, 32-inch surgical monitor and recorder on one ' +
-      'cart; works with the FlexView and ClearPath scopes.',
+      'cart; compatible with the U75 and C11 scopes.',
     listValue: 9_500_000,
     depositRule: { percentBps: 1_000, min: 500_000, max: 1_500_000 },
     deviceGtin: demoGtin(40001),
@@ -134,7 +134,7 @@ export const demoModels: DemoModel[] = [
   },
   {
     key: 'fluid',
-    name: 'Kestrel IrriFlow irrigation and pressure controller',
+    name: 'Quorvel P1 irrigation and pressure controller',
     category: 'fluid_management',
     description:
       'Irrigation pump with intrarenal pressure limit and flow display for ureteroscopy and ' +
@@ -150,11 +150,11 @@ export const demoModels: DemoModel[] = [
   },
   {
     key: 'instruments',
-    name: 'Kestrel Pathfinder starter instrument set',
+    name: 'Quorvel R2 starter instrument set',
     category: 'accessory',
     description:
       'Eight reusable wristed instruments (needle drivers, graspers, scissors, bipolar) for ' +
-      'the Pathfinder R2, each good for 10 uses, in a sterilisation tray.',
+      'the R2 platform, each good for 10 uses, in a sterilisation tray.',
     listValue: 1_200_000,
     depositRule: { percentBps: 2_500, min: 100_000, max: 300_000 },
     deviceGtin: demoGtin(60001),
@@ -182,8 +182,8 @@ export const demoCompatibility: [string, string][] = [
   ['fluid', 'laser'],
 ];
 
-/** Which depot of Kestrel Surgical (by name in demo-data.ts). */
-export type DemoDepot = 'Kestrel East Depot' | 'Kestrel West Depot' | 'Kestrel Europe Depot';
+/** Which depot of Quorvel Surgical (by name in demo-data.ts). */
+export type DemoDepot = 'Quorvel East Depot' | 'Quorvel West Depot' | 'Quorvel Europe Depot';
 
 export interface DemoUnit {
   model: string;
@@ -192,9 +192,9 @@ export interface DemoUnit {
   status: UnitStatus;
 }
 
-const east: DemoDepot = 'Kestrel East Depot';
-const west: DemoDepot = 'Kestrel West Depot';
-const europe: DemoDepot = 'Kestrel Europe Depot';
+const east: DemoDepot = 'Quorvel East Depot';
+const west: DemoDepot = 'Quorvel West Depot';
+const europe: DemoDepot = 'Quorvel Europe Depot';
 
 function units(model: string, prefix: string, depots: DemoDepot[], statuses: UnitStatus[] = []) {
   return depots.map((depot, i) => ({
@@ -207,20 +207,20 @@ function units(model: string, prefix: string, depots: DemoDepot[], statuses: Uni
 
 /** 37 units over the three depots; one in maintenance and one retired. */
 export const demoUnits: DemoUnit[] = [
-  ...units('robot', 'KPR2', [east, east, west, europe]),
-  ...units('uretero', 'KFV75', [east, east, east, west, west, west, europe, europe, europe]),
-  ...units('cysto', 'KCP11', [east, east, west, europe, europe]),
+  ...units('robot', 'QR2', [east, east, west, europe]),
+  ...units('uretero', 'QU75', [east, east, east, west, west, west, europe, europe, europe]),
+  ...units('cysto', 'QC11', [east, east, west, europe, europe]),
   ...units(
     'laser',
-    'KTFL60',
+    'QT60',
     [east, east, west, west, europe, europe],
     ['active', 'active', 'active', 'maintenance'],
   ),
-  ...units('tower', 'KA4K', [east, west, europe, europe]),
-  ...units('fluid', 'KIF', [east, west, europe, europe]),
+  ...units('tower', 'QV4', [east, west, europe, europe]),
+  ...units('fluid', 'QP1', [east, west, europe, europe]),
   ...units(
     'instruments',
-    'KPIS',
+    'QR2S',
     [east, west, europe, east, west],
     ['active', 'active', 'active', 'active', 'retired'],
   ),
@@ -235,10 +235,10 @@ export interface DemoMaintenance {
 }
 
 export const demoMaintenance: DemoMaintenance[] = [
-  { serialNumber: 'KPR2-0003', startInDays: 10, days: 8, reason: 'Annual preventive maintenance' },
-  { serialNumber: 'KTFL60-0001', startInDays: 40, days: 5, reason: 'Fibre port recalibration' },
-  { serialNumber: 'KA4K-0001', startInDays: 5, days: 5, reason: 'Monitor panel replacement' },
-  { serialNumber: 'KFV75-0004', startInDays: 24, days: 4, reason: 'Deflection cable service' },
+  { serialNumber: 'QR2-0003', startInDays: 10, days: 8, reason: 'Annual preventive maintenance' },
+  { serialNumber: 'QT60-0001', startInDays: 40, days: 5, reason: 'Fibre port recalibration' },
+  { serialNumber: 'QV4-0001', startInDays: 5, days: 5, reason: 'Monitor panel replacement' },
+  { serialNumber: 'QU75-0004', startInDays: 24, days: 4, reason: 'Deflection cable service' },
 ];
 
 /** What happens to a demo loan after it is requested. */
@@ -261,27 +261,27 @@ export interface DemoLoan {
 
 export const demoLoans: DemoLoan[] = [
   {
-    buyer: 'buyer@harbourview.example',
-    campus: 'Harbourview Medical Center',
-    serialNumbers: ['KPR2-0001', 'KPIS-0001'],
+    buyer: 'buyer@velmora.example',
+    campus: 'Velmora East Campus',
+    serialNumbers: ['QR2-0001', 'QR2S-0001'],
     startInDays: 21,
     days: 5,
     note: 'Five partial nephrectomies booked in OR 7; proctor requested for the first two.',
     outcome: 'approved',
   },
   {
-    buyer: 'buyer@harbourview.example',
-    campus: 'Harbourview Lakeshore Hospital',
-    serialNumbers: ['KFV75-0001', 'KFV75-0002', 'KTFL60-0002', 'KIF-0001'],
+    buyer: 'buyer@velmora.example',
+    campus: 'Velmora Lakefront Campus',
+    serialNumbers: ['QU75-0001', 'QU75-0002', 'QT60-0002', 'QP1-0001'],
     startInDays: 35,
     days: 4,
     note: 'Stone list comparing dusting settings; two scopes so reprocessing does not hold up the list.',
     outcome: 'requested',
   },
   {
-    buyer: 'buyer@harbourview.example',
-    campus: 'Harbourview Medical Center',
-    serialNumbers: ['KA4K-0002'],
+    buyer: 'buyer@velmora.example',
+    campus: 'Velmora East Campus',
+    serialNumbers: ['QV4-0002'],
     startInDays: 49,
     days: 3,
     note: null,
@@ -289,9 +289,9 @@ export const demoLoans: DemoLoan[] = [
     reason: 'That tower is committed to a service campaign that week; please pick the next week.',
   },
   {
-    buyer: 'buyer@harbourview.example',
-    campus: 'Harbourview Lakeshore Hospital',
-    serialNumbers: ['KCP11-0001'],
+    buyer: 'buyer@velmora.example',
+    campus: 'Velmora Lakefront Campus',
+    serialNumbers: ['QC11-0001'],
     startInDays: 28,
     days: 2,
     note: 'Office cystoscopy clinic trial.',
@@ -299,27 +299,27 @@ export const demoLoans: DemoLoan[] = [
     reason: 'The clinic sessions moved to the autumn.',
   },
   {
-    buyer: 'buyer@rheinau.example',
-    campus: 'Klinikum Rheinau, Hauptcampus',
-    serialNumbers: ['KPR2-0004'],
+    buyer: 'buyer@orlenbach.example',
+    campus: 'Orlenbach Hauptstandort',
+    serialNumbers: ['QR2-0004'],
     startInDays: 30,
     days: 5,
     note: 'Evaluation for the value-analysis committee; cases in OP 3.',
     outcome: 'requested',
   },
   {
-    buyer: 'buyer@rheinau.example',
-    campus: 'Klinikum Rheinau, Hauptcampus',
-    serialNumbers: ['KTFL60-0005', 'KIF-0003'],
+    buyer: 'buyer@orlenbach.example',
+    campus: 'Orlenbach Hauptstandort',
+    serialNumbers: ['QT60-0005', 'QP1-0003'],
     startInDays: 42,
     days: 3,
     note: null,
     outcome: 'approved',
   },
   {
-    buyer: 'buyer@rheinau.example',
-    campus: 'Klinikum Rheinau, Hauptcampus',
-    serialNumbers: ['KFV75-0007'],
+    buyer: 'buyer@orlenbach.example',
+    campus: 'Orlenbach Hauptstandort',
+    serialNumbers: ['QU75-0007'],
     startInDays: 63,
     days: 2,
     note: 'Second scope for the same stone list.',
@@ -328,4 +328,4 @@ export const demoLoans: DemoLoan[] = [
 ];
 
 /** The demo lender and the person who approves or declines its loans. */
-export const demoLender = { name: 'Kestrel Surgical', fleetManager: 'fleet@kestrel.example' };
+export const demoLender = { name: 'Quorvel Surgical', fleetManager: 'fleet@quorvel.example' };

@@ -59,7 +59,7 @@ async function siteIdByName(dataSource: DataSource, name: string): Promise<numbe
 }
 
 /**
- * Loads Kestrel Surgical's catalogue (models, packing lists, compatibility, units over its three
+ * Loads Quorvel Surgical's catalogue (models, packing lists, compatibility, units over its three
  * depots), maintenance holds and loans in every early state, dated from `now` so calendars are
  * lived-in whenever the demo is loaded. Loans go through the same booking and approval use cases
  * as the API (footprints, holds, events), so the demo cannot hold a state the product could not

@@ -20,7 +20,7 @@ export function makeLoan(overrides: Partial<Loan> = {}): Loan {
   const milestones = overrides.milestones ?? MILESTONES;
   return {
     id: 42,
-    reference: 'EV-2027-0042',
+    reference: 'EV-2027-000042',
     state: 'confirmed',
     hospitalId: 11,
     hospitalName: 'Quillfield Teaching Hospital',

@@ -2,7 +2,7 @@ import type { EntityManager } from 'typeorm';
 import type { ModelCategory, UnitStatus } from '@evalon/contracts';
 import { likePattern } from '../../catalog/data-access/catalog-repository';
 
-/** A unit with its model and home depot: everything a footprint and a deposit need. */
+/** A unit with its model and base depot: everything a footprint and a deposit need. */
 export interface CandidateUnit {
   unitId: number;
   serialNumber: string;

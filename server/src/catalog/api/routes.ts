@@ -358,7 +358,7 @@ export function unitRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): ApiR
       summary: 'Add a unit to a model',
       description:
         'Serial numbers are unique per model; the UDI device identifier is a 14-digit GTIN with ' +
-        'a valid check digit; the home depot must be one of the lender’s depots.',
+        'a valid check digit; the base depot must be one of the lender’s depots.',
       access: fleetManagers,
       body: unitInput,
       responses: {
@@ -377,7 +377,7 @@ export function unitRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): ApiR
     {
       method: 'put',
       path: '/:id',
-      summary: 'Change a unit (serial, UDI, home depot, status)',
+      summary: 'Change a unit (serial, UDI, base depot, status)',
       description:
         'A unit in maintenance or retired drops out of new searches; loans already booked keep ' +
         'their holds.',

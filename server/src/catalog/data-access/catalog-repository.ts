@@ -398,7 +398,7 @@ export async function replacePackingList(
 }
 
 /**
- * Replaces a model's compatibility list, in both directions: X compatible with Y means Y is
+ * Replaces a model's compatibility list, in both directions: X being compatible with Y means Y is
  * compatible with X, so removing Y from X also removes X from Y.
  */
 export async function replaceCompatibility(

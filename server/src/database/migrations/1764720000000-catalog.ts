@@ -2,7 +2,7 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
 
 /**
  * The lender's catalogue: shipping settings per lender, models with packing lists, symmetric
- * compatibility and photos, and the physical units with their home depot. Money is integer
+ * compatibility and photos, and the physical units with their base depot. Money is integer
  * minor units beside an ISO 4217 code.
  */
 export class Catalog1764720000000 implements MigrationInterface {

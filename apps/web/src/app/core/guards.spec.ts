@@ -70,7 +70,7 @@ describe('guards', () => {
   it('lets signed-in people through, and keeps them off the sign-in page', async () => {
     const harness = await RouterTestingHarness.create();
     const navigation = harness.navigateByUrl('/loans');
-    await answerMe(person([membership('harbourview', 'buyer')]));
+    await answerMe(person([membership('velmora', 'buyer')]));
     await navigation;
     expect(TestBed.inject(Router).url).toBe('/loans');
 
@@ -81,7 +81,7 @@ describe('guards', () => {
   it('sends people without the role home', async () => {
     const harness = await RouterTestingHarness.create();
     const navigation = harness.navigateByUrl('/approvals');
-    await answerMe(person([membership('harbourview', 'buyer')]));
+    await answerMe(person([membership('velmora', 'buyer')]));
     await navigation;
     expect(TestBed.inject(Router).url).toBe('/');
   });
@@ -89,7 +89,7 @@ describe('guards', () => {
   it('lets people with the role in the active organisation through', async () => {
     const harness = await RouterTestingHarness.create();
     const navigation = harness.navigateByUrl('/approvals');
-    await answerMe(person([membership('meridian', 'fleet_manager')]));
+    await answerMe(person([membership('dralvik', 'fleet_manager')]));
     await navigation;
     expect(TestBed.inject(Router).url).toBe('/approvals');
   });

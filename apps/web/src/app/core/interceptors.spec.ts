@@ -107,7 +107,7 @@ describe('interceptors', () => {
     const navigate = jest.spyOn(router, 'navigate').mockResolvedValue(true);
     jest.spyOn(router, 'url', 'get').mockReturnValue('/organisations/7/members');
     const session = TestBed.inject(SessionStore);
-    session.setUser(person([membership('harbourview', 'buyer')]));
+    session.setUser(person([membership('velmora', 'buyer')]));
 
     const getting = firstValueFrom(client.get('/api/organisations/7/members'));
     http

@@ -153,7 +153,7 @@ export const builtDestinations: readonly Destination[] = [
     icon: 'devices',
     // Coordinators see the fleet read-only; fleet managers change it.
     roles: ['fleet_manager', 'coordinator'],
-    summary: 'See every serial-numbered unit, its home depot, its holds and where it is right now.',
+    summary: 'See every serial-numbered unit, its base depot, its holds and where it is right now.',
   },
 ];
 

@@ -28,48 +28,48 @@ describe('SessionStore', () => {
     const session = setUp();
     session.setUser(
       person([
-        membership('harbourview', 'buyer'),
-        membership('harbourview', 'clinician'),
-        membership('meridian', 'coordinator'),
+        membership('velmora', 'buyer'),
+        membership('velmora', 'clinician'),
+        membership('dralvik', 'coordinator'),
       ]),
     );
     expect(session.organisations().map((o) => o.name)).toEqual([
-      organisations.harbourview.name,
-      organisations.meridian.name,
+      organisations.velmora.name,
+      organisations.dralvik.name,
     ]);
-    expect(session.activeOrganisation()?.id).toBe(organisations.harbourview.id);
+    expect(session.activeOrganisation()?.id).toBe(organisations.velmora.id);
     expect(session.roles()).toEqual(['buyer', 'clinician']);
     expect(session.canManageMembers()).toBe(true);
 
-    session.selectOrganisation(organisations.meridian.id);
+    session.selectOrganisation(organisations.dralvik.id);
     expect(session.roles()).toEqual(['coordinator']);
     expect(session.canManageMembers()).toBe(false);
   });
 
   it('remembers the chosen organisation in localStorage for the next visit', () => {
     let session = setUp();
-    session.setUser(person([membership('harbourview', 'buyer'), membership('northgate', 'buyer')]));
-    session.selectOrganisation(organisations.northgate.id);
-    expect(localStorage.getItem(ACTIVE_ORGANISATION_KEY)).toBe(String(organisations.northgate.id));
+    session.setUser(person([membership('velmora', 'buyer'), membership('zelvara', 'buyer')]));
+    session.selectOrganisation(organisations.zelvara.id);
+    expect(localStorage.getItem(ACTIVE_ORGANISATION_KEY)).toBe(String(organisations.zelvara.id));
 
     TestBed.resetTestingModule();
     session = setUp();
-    session.setUser(person([membership('harbourview', 'buyer'), membership('northgate', 'buyer')]));
-    expect(session.activeOrganisation()?.name).toBe(organisations.northgate.name);
+    session.setUser(person([membership('velmora', 'buyer'), membership('zelvara', 'buyer')]));
+    expect(session.activeOrganisation()?.name).toBe(organisations.zelvara.name);
   });
 
   it('ignores a remembered organisation the person no longer belongs to', () => {
     localStorage.setItem(ACTIVE_ORGANISATION_KEY, '999');
     const session = setUp();
-    session.setUser(person([membership('meridian', 'fleet_manager')]));
-    expect(session.activeOrganisation()?.id).toBe(organisations.meridian.id);
+    session.setUser(person([membership('dralvik', 'fleet_manager')]));
+    expect(session.activeOrganisation()?.id).toBe(organisations.dralvik.id);
   });
 
   it('loads /api/auth/me once for concurrent callers', async () => {
     const session = setUp();
     const first = session.ensureLoaded();
     const second = session.ensureLoaded();
-    http.expectOne('/api/auth/me').flush({ user: person([membership('harbourview', 'buyer')]) });
+    http.expectOne('/api/auth/me').flush({ user: person([membership('velmora', 'buyer')]) });
     expect((await first)?.name).toBe('Dana Whitlock');
     expect(await second).toBe(await first);
     await session.ensureLoaded(); // Answered from memory: no second request (verify() checks).
@@ -96,7 +96,7 @@ describe('SessionStore', () => {
     http.expectOne('/api/auth/me').flush('down', { status: 503, statusText: 'Unavailable' });
     expect(await loading).toBeNull();
     const retry = session.ensureLoaded();
-    http.expectOne('/api/auth/me').flush({ user: person([membership('harbourview', 'buyer')]) });
+    http.expectOne('/api/auth/me').flush({ user: person([membership('velmora', 'buyer')]) });
     expect(await retry).not.toBeNull();
   });
 });

@@ -10,8 +10,8 @@ import { addDays, todayIn } from '../shared/iso-date';
 import { organisations } from './people';
 
 /*
- * Invented marketplace data for client tests: Harbourview Health's campuses, the lender
- * Meridian Surgical Loans with its depots, models, search results and loans. No real names.
+ * Invented marketplace data for client tests: Velmora Health's campuses, the lender
+ * Dralvik Medical Loans with its depots, models, search results and loans. No real names.
  */
 
 /** A day `days` ahead of today in New York, so form dates stay in the future whenever tests run. */
@@ -27,10 +27,10 @@ export function typed(iso: string): string {
 
 export const campusBoston: Site = {
   id: 11,
-  organisationId: organisations.harbourview.id,
-  organisationName: organisations.harbourview.name,
+  organisationId: organisations.velmora.id,
+  organisationName: organisations.velmora.name,
   kind: 'campus',
-  name: 'Harbourview Medical Center',
+  name: 'Velmora East Campus',
   addressLine: '1 Pier Road',
   city: 'Boston',
   country: 'US',
@@ -44,7 +44,7 @@ export const campusBoston: Site = {
 export const campusChicago: Site = {
   ...campusBoston,
   id: 12,
-  name: 'Harbourview Lakeshore Hospital',
+  name: 'Velmora Lakefront Campus',
   city: 'Chicago',
   latitude: 41.86,
   longitude: -87.62,
@@ -53,10 +53,10 @@ export const campusChicago: Site = {
 
 export const depotEast: Site = {
   id: 21,
-  organisationId: organisations.meridian.id,
-  organisationName: organisations.meridian.name,
+  organisationId: organisations.dralvik.id,
+  organisationName: organisations.dralvik.name,
   kind: 'depot',
-  name: 'Meridian East Depot',
+  name: 'Dralvik East Depot',
   addressLine: '5 Dockside Way',
   city: 'Edison',
   country: 'US',
@@ -70,7 +70,7 @@ export const depotEast: Site = {
 export const depotEurope: Site = {
   ...depotEast,
   id: 22,
-  name: 'Meridian Europe Depot',
+  name: 'Dralvik Europe Depot',
   city: 'Frankfurt',
   country: 'DE',
   latitude: 50.0,
@@ -83,8 +83,8 @@ export const sites: Site[] = [campusBoston, campusChicago, depotEast, depotEurop
 /** A model with the fields screens read. */
 export function model(overrides: Partial<Model> & Pick<Model, 'id' | 'name' | 'category'>): Model {
   return {
-    lenderId: organisations.meridian.id,
-    lenderName: organisations.meridian.name,
+    lenderId: organisations.dralvik.id,
+    lenderName: organisations.dralvik.name,
     description: 'An invented model for tests.',
     listValue: 2_800_000,
     currency: 'USD',
@@ -104,12 +104,12 @@ export function model(overrides: Partial<Model> & Pick<Model, 'id' | 'name' | 'c
 
 export const scopeModel = model({
   id: 2,
-  name: 'Meridian Slimline ureteroscope',
+  name: 'Dralvik U6 slim ureteroscope',
   category: 'flexible_endoscope',
 });
 export const towerModel = model({
   id: 5,
-  name: 'Meridian Vista imaging tower',
+  name: 'Dralvik V2 imaging tower',
   category: 'imaging',
 });
 export const models: Model[] = [scopeModel, towerModel];
@@ -135,8 +135,8 @@ export function availabilityItem(
     modelId: scopeModel.id,
     modelName: scopeModel.name,
     category: scopeModel.category,
-    lenderId: organisations.meridian.id,
-    lenderName: organisations.meridian.name,
+    lenderId: organisations.dralvik.id,
+    lenderName: organisations.dralvik.name,
     depotId: depotEast.id,
     depotName: depotEast.name,
     depotTimeZone: depotEast.timeZone,
@@ -173,19 +173,19 @@ export function availabilityResponse(items: AvailabilityItem[]) {
   };
 }
 
-/** A loan of Harbourview Health. */
+/** A loan of Velmora Health. */
 export function loan(overrides: Partial<Loan> & Pick<Loan, 'id' | 'reference' | 'state'>): Loan {
   const useFrom = overrides.useFrom ?? '2027-03-01';
   const useTo = overrides.useTo ?? '2027-03-03';
   const milestones = milestonesFor(useFrom, useTo);
   return {
-    hospitalId: organisations.harbourview.id,
-    hospitalName: organisations.harbourview.name,
+    hospitalId: organisations.velmora.id,
+    hospitalName: organisations.velmora.name,
     siteId: campusBoston.id,
     siteName: campusBoston.name,
     siteTimeZone: campusBoston.timeZone,
-    lenderId: organisations.meridian.id,
-    lenderName: organisations.meridian.name,
+    lenderId: organisations.dralvik.id,
+    lenderName: organisations.dralvik.name,
     useFrom,
     useTo,
     milestones,

@@ -13,7 +13,7 @@ import { organisations } from './people';
  * integer minor units (5,600.00 USD = 560000), as the API sends them. No real names.
  */
 
-/** The payments of Harbourview's loan 1 while it waits for its deposit. */
+/** The payments of Velmora's loan 1 while it waits for its deposit. */
 export function loanPayments(overrides: Partial<LoanPayments> = {}): LoanPayments {
   return {
     loanId: 1,
@@ -86,12 +86,12 @@ export function notification(
   };
 }
 
-/** A credit agreement of Meridian Surgical Loans with a hospital. */
+/** A credit agreement of Dralvik Medical Loans with a hospital. */
 export function creditAgreement(
   overrides: Partial<CreditAgreement> & Pick<CreditAgreement, 'hospitalId' | 'hospitalName'>,
 ): CreditAgreement {
   return {
-    lenderId: organisations.meridian.id,
+    lenderId: organisations.dralvik.id,
     active: true,
     approvedBy: 'Priya Lennox',
     approvedAt: '2026-10-01T13:00:00.000Z',
@@ -107,7 +107,7 @@ export function outboxMessage(
   return {
     messageId: `0b5e1c7e-0000-4000-8000-${String(overrides.id).padStart(12, '0')}`,
     kind: 'email',
-    to: ['dana.whitlock@harbourview.example'],
+    to: ['dana.whitlock@velmora.example'],
     cc: [],
     attachmentCount: 0,
     status: 'parked',

@@ -2,9 +2,9 @@ import type { Membership, OrganisationKind, Role, SessionUser } from '@evalon/co
 
 /** Invented organisations for client tests (no real names). */
 export const organisations = {
-  harbourview: { id: 7, name: 'Harbourview Health', kind: 'hospital' },
-  northgate: { id: 9, name: 'Northgate Clinics', kind: 'hospital' },
-  meridian: { id: 12, name: 'Meridian Surgical Loans', kind: 'lender' },
+  velmora: { id: 7, name: 'Velmora Health', kind: 'hospital' },
+  zelvara: { id: 9, name: 'Zelvara Hospitals', kind: 'hospital' },
+  dralvik: { id: 12, name: 'Dralvik Medical Loans', kind: 'lender' },
 } as const satisfies Record<string, { id: number; name: string; kind: OrganisationKind }>;
 
 type OrganisationName = keyof typeof organisations;
@@ -22,7 +22,7 @@ export function person(
 ): SessionUser {
   return {
     id: 101,
-    email: 'dana.whitlock@harbourview.example',
+    email: 'dana.whitlock@velmora.example',
     name: 'Dana Whitlock',
     timeZone: 'America/New_York',
     memberships,

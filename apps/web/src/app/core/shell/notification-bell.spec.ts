@@ -62,7 +62,7 @@ describe('NotificationBell', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', 'coordinator')]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', 'coordinator')]));
     fixture = TestBed.createComponent(NotificationBell);
     loader = TestbedHarnessEnvironment.loader(fixture);
     await fixture.whenStable();

@@ -49,44 +49,44 @@ describe('Shell', () => {
   }
 
   it('shows a buyer their pages and Members', async () => {
-    await render([membership('harbourview', 'buyer')]);
+    await render([membership('velmora', 'buyer')]);
     expect(await navLabels()).toEqual(['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members']);
   });
 
   it('shows a coordinator Home, Shipments and (read-only) Units, without Members', async () => {
-    await render([membership('meridian', 'coordinator')]);
+    await render([membership('dralvik', 'coordinator')]);
     expect(await navLabels()).toEqual(['Home', 'Shipments', 'Units']);
   });
 
   it('has no organisation switcher with a single organisation, just its name', async () => {
-    await render([membership('harbourview', 'buyer'), membership('harbourview', 'clinician')]);
+    await render([membership('velmora', 'buyer'), membership('velmora', 'clinician')]);
     const switchers = await loader.getAllHarnesses(
       MatButtonHarness.with({ selector: '.organisation-switcher' }),
     );
     expect(switchers).toHaveLength(0);
     expect(fixture.nativeElement.querySelector('.organisation-single')?.textContent).toContain(
-      organisations.harbourview.name,
+      organisations.velmora.name,
     );
   });
 
   it('switches organisation from the menu and rebuilds the navigation for the new roles', async () => {
-    await render([membership('harbourview', 'buyer'), membership('meridian', 'fleet_manager')]);
+    await render([membership('velmora', 'buyer'), membership('dralvik', 'fleet_manager')]);
     const router = TestBed.inject(Router);
     const navigate = jest.spyOn(router, 'navigateByUrl');
 
     const switcher = await loader.getHarness(
       MatMenuHarness.with({ selector: '.organisation-switcher' }),
     );
-    expect(await switcher.getTriggerText()).toContain(organisations.harbourview.name);
+    expect(await switcher.getTriggerText()).toContain(organisations.velmora.name);
     await switcher.open();
     const items = await switcher.getItems();
     expect(await Promise.all(items.map((i) => i.getText()))).toEqual([
-      expect.stringContaining(organisations.harbourview.name),
-      expect.stringContaining(organisations.meridian.name),
+      expect.stringContaining(organisations.velmora.name),
+      expect.stringContaining(organisations.dralvik.name),
     ]);
     await items[1].click();
 
-    expect(session.activeOrganisation()?.id).toBe(organisations.meridian.id);
+    expect(session.activeOrganisation()?.id).toBe(organisations.dralvik.id);
     expect(navigate).toHaveBeenCalledWith('/');
     expect(await navLabels()).toEqual([
       'Home',
@@ -99,13 +99,13 @@ describe('Shell', () => {
   });
 
   it('has the notification bell in the top bar', async () => {
-    await render([membership('meridian', 'coordinator')]);
+    await render([membership('dralvik', 'coordinator')]);
     const bell = fixture.nativeElement.querySelector('.top-bar ev-notification-bell button');
     expect(bell?.getAttribute('aria-label')).toBe('Notifications');
   });
 
   it('signs out from the person menu', async () => {
-    await render([membership('harbourview', 'clinician')]);
+    await render([membership('velmora', 'clinician')]);
     const http = TestBed.inject(HttpTestingController);
     const navigate = jest.spyOn(TestBed.inject(Router), 'navigate').mockResolvedValue(true);
 

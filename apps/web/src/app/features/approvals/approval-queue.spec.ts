@@ -25,9 +25,9 @@ const older = waitingLoan();
 const newer: Loan = waitingLoan({
   id: 3002,
   reference: 'EV-2027-000102',
-  hospitalName: organisations.northgate.name,
-  hospitalId: organisations.northgate.id,
-  siteName: 'Northgate Riverside Clinic',
+  hospitalName: organisations.zelvara.name,
+  hospitalId: organisations.zelvara.id,
+  siteName: 'Zelvara North Campus',
   createdAt: '2027-02-03T09:30:00.000Z',
   useFrom: '2027-04-12',
   useTo: '2027-04-13',
@@ -45,7 +45,7 @@ const newer: Loan = waitingLoan({
       ...older.units[0]!,
       unitId: 7003,
       modelId: 42,
-      modelName: 'Meridian Atlas robotic platform',
+      modelName: 'Dralvik A5 robotic platform',
       serialNumber: 'MA-0001',
       milestones: {
         shipBy: '2027-04-06',
@@ -105,7 +105,7 @@ describe('ApprovalQueue', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', 'fleet_manager')]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', 'fleet_manager')]));
     harness = await RouterTestingHarness.create();
     await harness.navigateByUrl('/approvals');
     loader = TestbedHarnessEnvironment.loader(harness.fixture);
@@ -134,9 +134,9 @@ describe('ApprovalQueue', () => {
     for (const part of [
       'EV-2027-000101',
       deposit,
-      'Harbourview Health',
-      'Harbourview Lakeside Campus',
-      'Meridian Vantage ureteroscope',
+      'Velmora Health',
+      'Velmora Lakefront Campus',
+      'Dralvik U8 ureteroscope',
       'Cases Mar 5 – Mar 8, 2027',
       'Asked Feb 1, 2027',
     ]) {
@@ -146,7 +146,7 @@ describe('ApprovalQueue', () => {
     expect(page().querySelector('.request.selected')!.textContent).toContain('EV-2027-000101');
 
     const detail = page().querySelector('.detail')!;
-    expect(detail.querySelector('.detail-title')!.textContent).toContain('Harbourview Health');
+    expect(detail.querySelector('.detail-title')!.textContent).toContain('Velmora Health');
     expect(detail.textContent).toContain('Four stone cases booked in OR 3.');
     // The seven milestones, from ship-by to ready again.
     expect(detail.querySelectorAll('ev-milestone-timeline li')).toHaveLength(7);
@@ -201,7 +201,7 @@ describe('ApprovalQueue', () => {
     const confirm = await root.getHarness(MatDialogHarness);
     expect(await confirm.getTitleText()).toBe('Approve EV-2027-000101?');
     expect(await confirm.getContentText()).toContain(
-      `Harbourview Health is asked to secure the deposit of ${formatMoney(560_000, 'USD', 'en-US')}`,
+      `Velmora Health is asked to secure the deposit of ${formatMoney(560_000, 'USD', 'en-US')}`,
     );
     await (await confirm.getHarness(MatButtonHarness.with({ text: 'Approve' }))).click();
 
@@ -213,7 +213,7 @@ describe('ApprovalQueue', () => {
     await settle();
 
     expect(queueTexts()).toEqual([expect.stringContaining('EV-2027-000102')]);
-    expect(page().querySelector('.detail-title')!.textContent).toContain('Northgate Clinics');
+    expect(page().querySelector('.detail-title')!.textContent).toContain('Zelvara Hospitals');
     expect(document.querySelector('.mat-mdc-snack-bar-label')!.textContent).toContain(
       'EV-2027-000101 approved.',
     );

@@ -31,7 +31,7 @@ describe('CatalogModels', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', 'fleet_manager')]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', 'fleet_manager')]));
     fixture = TestBed.createComponent(CatalogModels);
     loader = TestbedHarnessEnvironment.loader(fixture);
     await fixture.whenStable();
@@ -48,15 +48,15 @@ describe('CatalogModels', () => {
   };
 
   it('shows category, list value and deposit with the deposits package’s formatting', async () => {
-    const [atlas, lumen, vantage] = await rows();
-    expect(atlas!['name']).toContain('Meridian Atlas robotic platform');
-    expect(atlas!['category']).toBe('Robotic platform');
-    expect(atlas!['listValue']).toBe(formatMoney(185_000_000, 'USD'));
-    expect(atlas!['deposit']).toContain(`${formatMoney(3_700_000, 'USD')} estimate`);
-    expect(atlas!['deposit']).toContain('2% of list value, $25,000.00–$60,000.00');
-    expect(lumen!['name']).toContain('Meridian Lumen laser');
-    expect(vantage!['units']).toContain('3');
-    expect(vantage!['units']).toContain('2 available');
+    const [robot, laser, scope] = await rows();
+    expect(robot!['name']).toContain('Dralvik A5 robotic platform');
+    expect(robot!['category']).toBe('Robotic platform');
+    expect(robot!['listValue']).toBe(formatMoney(185_000_000, 'USD'));
+    expect(robot!['deposit']).toContain(`${formatMoney(3_700_000, 'USD')} estimate`);
+    expect(robot!['deposit']).toContain('2% of list value, $25,000.00–$60,000.00');
+    expect(laser!['name']).toContain('Dralvik L3 laser');
+    expect(scope!['units']).toContain('3');
+    expect(scope!['units']).toContain('2 available');
     expect(fixture.nativeElement.querySelector('.summary').textContent).toContain(
       '3 models · 6 units',
     );
@@ -67,14 +67,14 @@ describe('CatalogModels', () => {
       await loader.getHarness(MatInputHarness.with({ selector: '[type="search"]' }))
     ).setValue('laser');
     expect((await rows()).map((r) => r['name'])).toEqual([
-      expect.stringContaining('Meridian Lumen laser'),
+      expect.stringContaining('Dralvik L3 laser'),
     ]);
     await (
       await loader.getHarness(MatInputHarness.with({ selector: '[type="search"]' }))
     ).setValue('');
     await (await loader.getHarness(MatSelectHarness)).clickOptions({ text: 'Flexible endoscope' });
     expect((await rows()).map((r) => r['name'])).toEqual([
-      expect.stringContaining('Meridian Vantage ureteroscope'),
+      expect.stringContaining('Dralvik U8 ureteroscope'),
     ]);
     await (await loader.getHarness(MatSelectHarness)).clickOptions({ text: 'All categories' });
 

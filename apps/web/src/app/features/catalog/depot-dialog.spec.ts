@@ -59,7 +59,7 @@ describe('DepotDialog', () => {
     const dialog = await root.getHarness(MatDialogHarness);
     expect(await dialog.getTitleText()).toBe('Add a depot');
     await ((await control(dialog, 'Depot name')) as MatInputHarness).setValue(
-      ' Meridian Lake Depot ',
+      ' Dralvik Lake Depot ',
     );
     await ((await control(dialog, 'Street address')) as MatInputHarness).setValue('9 Shore Road');
     await ((await control(dialog, 'City')) as MatInputHarness).setValue('Lakeport');
@@ -81,7 +81,7 @@ describe('DepotDialog', () => {
     const request = http.expectOne(`/api/lenders/${lenderId}/depots`);
     expect(request.request.method).toBe('POST');
     expect(request.request.body).toEqual({
-      name: 'Meridian Lake Depot',
+      name: 'Dralvik Lake Depot',
       addressLine: '9 Shore Road',
       city: 'Lakeport',
       postalCode: null,
@@ -105,7 +105,7 @@ describe('DepotDialog', () => {
       data: { lenderId, depot: fleetDepots[1] },
     });
     const dialog = await root.getHarness(MatDialogHarness);
-    expect(await dialog.getTitleText()).toBe('Change Meridian Rhine Depot');
+    expect(await dialog.getTitleText()).toBe('Change Dralvik Central Depot');
     const latitude = (await control(dialog, 'Latitude')) as MatInputHarness;
     await latitude.setValue('95');
     await (await dialog.getHarness(MatButtonHarness.with({ text: 'Save depot' }))).click();

@@ -2,22 +2,22 @@ import type { Depot, Hold, Loan, Model, Unit } from '@evalon/contracts';
 import { organisations } from '../../testing/people';
 
 /*
- * Invented fleet of the invented lender "Meridian Surgical Loans" for the fleet manager's
+ * Invented fleet of the invented lender "Dralvik Medical Loans" for the fleet manager's
  * client tests: names, serial numbers and places are made up. GTINs use the GS1
  * restricted-circulation prefix 2 (never assigned to a trade item), with check digits from the
  * GS1 rule (General Specifications §7.9.1).
  */
 
 /** The lender's organisation id. */
-export const lenderId = organisations.meridian.id;
+export const lenderId = organisations.dralvik.id;
 
 /** A model of the lender, with sensible defaults. */
 export function fleetModel(overrides: Partial<Model> = {}): Model {
   const base: Model = {
     id: 41,
     lenderId,
-    lenderName: organisations.meridian.name,
-    name: 'Meridian Vantage ureteroscope',
+    lenderName: organisations.dralvik.name,
+    name: 'Dralvik U8 ureteroscope',
     category: 'flexible_endoscope',
     description: 'Reusable flexible digital ureteroscope, loaned with its leak tester.',
     listValue: 2_800_000,
@@ -44,7 +44,7 @@ export const fleetModels: Model[] = [
   fleetModel(),
   fleetModel({
     id: 42,
-    name: 'Meridian Atlas robotic platform',
+    name: 'Dralvik A5 robotic platform',
     category: 'robotic_platform',
     listValue: 185_000_000,
     depositRule: { percentBps: 200, min: 2_500_000, max: 6_000_000, currency: 'USD' },
@@ -55,7 +55,7 @@ export const fleetModels: Model[] = [
   }),
   fleetModel({
     id: 43,
-    name: 'Meridian Lumen laser',
+    name: 'Dralvik L3 laser',
     category: 'laser',
     listValue: 14_500_000,
     depositRule: { percentBps: 1_000, min: 500_000, max: 2_000_000, currency: 'USD' },
@@ -72,7 +72,7 @@ export const fleetDepots: Depot[] = [
     id: 501,
     organisationId: lenderId,
     kind: 'depot',
-    name: 'Meridian Harbour Depot',
+    name: 'Dralvik Coast Depot',
     addressLine: '12 Quayside Way',
     city: 'Port Alder',
     postalCode: '02999',
@@ -88,7 +88,7 @@ export const fleetDepots: Depot[] = [
     id: 502,
     organisationId: lenderId,
     kind: 'depot',
-    name: 'Meridian Rhine Depot',
+    name: 'Dralvik Central Depot',
     addressLine: 'Lagerweg 4',
     city: 'Weidenfeld',
     postalCode: '55999',
@@ -107,13 +107,13 @@ export function fleetUnit(overrides: Partial<Unit> = {}): Unit {
   return {
     id: 7001,
     modelId: 41,
-    modelName: 'Meridian Vantage ureteroscope',
+    modelName: 'Dralvik U8 ureteroscope',
     category: 'flexible_endoscope',
     lenderId,
     serialNumber: 'MV-0001',
     udiDi: '02000000000008',
     homeDepotId: 501,
-    homeDepotName: 'Meridian Harbour Depot',
+    homeDepotName: 'Dralvik Coast Depot',
     homeDepotTimeZone: 'America/New_York',
     status: 'active',
     ...overrides,
@@ -130,7 +130,7 @@ export function fleetHold(overrides: Partial<Hold> = {}): Hold {
     end: '2027-03-12',
     loanId: 3001,
     loanReference: 'EV-2027-000101',
-    hospitalName: 'Harbourview Health',
+    hospitalName: 'Velmora Health',
     reason: null,
     label: 'EV-2027-000101',
     ...overrides,
@@ -152,13 +152,13 @@ export function waitingLoan(overrides: Partial<Loan> = {}): Loan {
     id: 3001,
     reference: 'EV-2027-000101',
     state: 'requested',
-    hospitalId: organisations.harbourview.id,
-    hospitalName: organisations.harbourview.name,
+    hospitalId: organisations.velmora.id,
+    hospitalName: organisations.velmora.name,
     siteId: 601,
-    siteName: 'Harbourview Lakeside Campus',
+    siteName: 'Velmora Lakefront Campus',
     siteTimeZone: 'America/Chicago',
     lenderId,
-    lenderName: organisations.meridian.name,
+    lenderName: organisations.dralvik.name,
     useFrom: milestones.useFrom,
     useTo: milestones.useTo,
     milestones,
@@ -166,10 +166,10 @@ export function waitingLoan(overrides: Partial<Loan> = {}): Loan {
       {
         unitId: 7001,
         modelId: 41,
-        modelName: 'Meridian Vantage ureteroscope',
+        modelName: 'Dralvik U8 ureteroscope',
         serialNumber: 'MV-0001',
         depotId: 501,
-        depotName: 'Meridian Harbour Depot',
+        depotName: 'Dralvik Coast Depot',
         milestones,
         deposit: { amount: 560_000, currency: 'USD' },
       },

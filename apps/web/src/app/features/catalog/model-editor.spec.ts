@@ -45,7 +45,7 @@ describe('ModelEditor', () => {
     });
     http = TestBed.inject(HttpTestingController);
     TestBed.inject(SessionStore).setUser(
-      person([membership('meridian', 'fleet_manager')], { email: 'fleet@meridian.example' }),
+      person([membership('dralvik', 'fleet_manager')], { email: 'fleet@dralvik.example' }),
     );
     fixture = TestBed.createComponent(ModelEditor);
     if (modelId !== undefined) fixture.componentRef.setInput('modelId', modelId);
@@ -153,7 +153,7 @@ describe('ModelEditor', () => {
     });
 
     it('sends amounts as exact minor units and opens the saved model', async () => {
-      await (await input('[formControlName="name"]')).setValue('  Meridian Beacon imaging tower ');
+      await (await input('[formControlName="name"]')).setValue('  Dralvik V9 imaging tower ');
       await (
         await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="category"]' }))
       ).clickOptions({ text: 'Imaging tower' });
@@ -169,7 +169,7 @@ describe('ModelEditor', () => {
       await (await input('[aria-label="Item 1 quantity"]')).setValue('2');
       await (await loader.getHarness(MatCheckboxHarness)).check();
       const chips = await loader.getHarness(MatChipListboxHarness);
-      await chips.selectChips({ text: /Meridian Lumen laser/ });
+      await chips.selectChips({ text: /Dralvik L3 laser/ });
 
       expect(fixture.nativeElement.querySelector('.preview').textContent).toContain('$11,875.01');
 
@@ -179,7 +179,7 @@ describe('ModelEditor', () => {
       const body: ModelInput = request.request.body;
       expect(body).toEqual({
         lenderId,
-        name: 'Meridian Beacon imaging tower',
+        name: 'Dralvik V9 imaging tower',
         category: 'imaging',
         description: 'Camera, light and monitor.',
         listValue: 9_500_010,
@@ -199,7 +199,7 @@ describe('ModelEditor', () => {
     });
 
     it('puts the server’s field messages on the matching fields', async () => {
-      await (await input('[formControlName="name"]')).setValue('Meridian Beacon imaging tower');
+      await (await input('[formControlName="name"]')).setValue('Dralvik V9 imaging tower');
       await (
         await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="category"]' }))
       ).clickOptions({ text: 'Imaging tower' });
@@ -291,8 +291,8 @@ describe('ModelEditor', () => {
       const chips = await (await loader.getHarness(MatChipListboxHarness)).getChips();
       const texts = await Promise.all(chips.map((c) => c.getText()));
       expect(texts).toEqual([
-        expect.stringContaining('Meridian Atlas robotic platform'),
-        expect.stringContaining('Meridian Lumen laser'),
+        expect.stringContaining('Dralvik A5 robotic platform'),
+        expect.stringContaining('Dralvik L3 laser'),
       ]);
     });
   });

@@ -66,7 +66,7 @@ describe('ModelPhotos', () => {
     URL.revokeObjectURL = jest.fn();
     fixture = TestBed.createComponent(ModelPhotos);
     fixture.componentRef.setInput('modelId', 41);
-    fixture.componentRef.setInput('modelName', 'Meridian Vantage ureteroscope');
+    fixture.componentRef.setInput('modelName', 'Dralvik U8 ureteroscope');
     fixture.componentRef.setInput('photos', [stored]);
     emitted = [];
     fixture.componentInstance.photosChange.subscribe((photos) => emitted.push(photos));

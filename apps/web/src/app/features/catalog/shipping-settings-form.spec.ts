@@ -63,7 +63,7 @@ describe('ShippingSettingsForm', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', 'fleet_manager')]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', 'fleet_manager')]));
     fixture = TestBed.createComponent(ShippingSettingsForm);
     fixture.componentRef.setInput('lenderId', lenderId);
     loader = TestbedHarnessEnvironment.loader(fixture);

@@ -16,9 +16,9 @@ import { creditAgreement } from '../../testing/payments';
 import { membership, organisations, person } from '../../testing/people';
 import { CreditAgreements, agreementRows } from './credit-agreements';
 
-const northgate = creditAgreement({
-  hospitalId: organisations.northgate.id,
-  hospitalName: organisations.northgate.name,
+const zelvara = creditAgreement({
+  hospitalId: organisations.zelvara.id,
+  hospitalName: organisations.zelvara.name,
 });
 
 describe('CreditAgreements', () => {
@@ -43,16 +43,16 @@ describe('CreditAgreements', () => {
     });
     http = TestBed.inject(HttpTestingController);
     TestBed.inject(SessionStore).setUser(
-      person([membership('meridian', 'fleet_manager')], { timeZone: 'America/New_York' }),
+      person([membership('dralvik', 'fleet_manager')], { timeZone: 'America/New_York' }),
     );
     fixture = TestBed.createComponent(CreditAgreements);
     loader = TestbedHarnessEnvironment.loader(fixture);
     root = TestbedHarnessEnvironment.documentRootLoader(fixture);
     await fixture.whenStable();
     http
-      .expectOne(`/api/lenders/${organisations.meridian.id}/credit-agreements`)
-      .flush({ items: [northgate] });
-    // Harbourview is known from its two loans; Northgate from its agreement only.
+      .expectOne(`/api/lenders/${organisations.dralvik.id}/credit-agreements`)
+      .flush({ items: [zelvara] });
+    // Velmora is known from its two loans; Zelvara from its agreement only.
     http.expectOne('/api/loans?limit=500').flush({
       items: [
         loan({ id: 1, reference: 'EV-2026-000001', state: 'approved' }),
@@ -68,8 +68,8 @@ describe('CreditAgreements', () => {
     await open();
     const rows = await (await loader.getHarness(MatTableHarness)).getCellTextByColumnName();
     expect(rows['hospital']!.text).toEqual([
-      'Harbourview Health2 loans with you',
-      'Northgate ClinicsNo loans with you yet',
+      'Velmora Health2 loans with you',
+      'Zelvara HospitalsNo loans with you yet',
     ]);
     expect(rows['status']!.text).toEqual(['Off', 'Active']);
     expect(rows['record']!.text).toEqual([
@@ -84,24 +84,24 @@ describe('CreditAgreements', () => {
   it('turns an agreement on only after confirmation', async () => {
     await open();
     const toggle = (await loader.getAllHarnesses(MatSlideToggleHarness))[0]!;
-    expect(await toggle.getAriaLabel()).toBe('Credit agreement with Harbourview Health');
+    expect(await toggle.getAriaLabel()).toBe('Credit agreement with Velmora Health');
     await toggle.toggle();
     const dialog = await root.getHarness(MatDialogHarness);
     expect(await dialog.getTitleText()).toBe(
-      'Turn on the credit agreement with Harbourview Health?',
+      'Turn on the credit agreement with Velmora Health?',
     );
     // Until confirmed, the switch shows what the server holds.
     expect(await toggle.isChecked()).toBe(false);
     await (await dialog.getHarness(MatButtonHarness.with({ text: 'Turn on' }))).click();
     const put = http.expectOne(
-      `/api/lenders/${organisations.meridian.id}/credit-agreements/${organisations.harbourview.id}`,
+      `/api/lenders/${organisations.dralvik.id}/credit-agreements/${organisations.velmora.id}`,
     );
     expect(put.request.method).toBe('PUT');
     expect(put.request.body).toEqual({ active: true });
     put.flush({
       creditAgreement: creditAgreement({
-        hospitalId: organisations.harbourview.id,
-        hospitalName: organisations.harbourview.name,
+        hospitalId: organisations.velmora.id,
+        hospitalName: organisations.velmora.name,
         approvedBy: 'Dana Whitlock',
         approvedAt: '2026-12-02T15:00:00.000Z',
       }),
@@ -119,7 +119,7 @@ describe('CreditAgreements', () => {
     await toggle.toggle();
     const dialog = await root.getHarness(MatDialogHarness);
     expect(await dialog.getTitleText()).toBe(
-      'Turn off the credit agreement with Northgate Clinics?',
+      'Turn off the credit agreement with Zelvara Hospitals?',
     );
     await (await dialog.getHarness(MatButtonHarness.with({ text: 'Cancel' }))).click();
     await settle();
@@ -131,19 +131,19 @@ describe('CreditAgreements', () => {
 describe('agreementRows', () => {
   it('merges agreements and hospitals known from loans, once each, by name', () => {
     const rows = agreementRows(
-      [northgate],
+      [zelvara],
       [
-        { hospitalId: organisations.northgate.id, hospitalName: 'Northgate Clinics', loanCount: 3 },
+        { hospitalId: organisations.zelvara.id, hospitalName: 'Zelvara Hospitals', loanCount: 3 },
         {
-          hospitalId: organisations.harbourview.id,
-          hospitalName: 'Harbourview Health',
+          hospitalId: organisations.velmora.id,
+          hospitalName: 'Velmora Health',
           loanCount: 1,
         },
       ],
     );
     expect(rows.map((r) => [r.hospitalName, r.agreement?.active ?? null, r.loanCount])).toEqual([
-      ['Harbourview Health', null, 1],
-      ['Northgate Clinics', true, 3],
+      ['Velmora Health', null, 1],
+      ['Zelvara Hospitals', true, 3],
     ]);
   });
 });

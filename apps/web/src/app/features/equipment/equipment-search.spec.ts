@@ -62,7 +62,7 @@ describe('EquipmentSearch', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('harbourview', 'buyer')]));
+    TestBed.inject(SessionStore).setUser(person([membership('velmora', 'buyer')]));
     harness = await RouterTestingHarness.create();
   });
 
@@ -98,7 +98,7 @@ describe('EquipmentSearch', () => {
       const campus = await loader.getHarness(
         MatSelectHarness.with({ selector: '[formControlName="siteId"]' }),
       );
-      expect(await campus.getValueText()).toBe('Harbourview Medical Center');
+      expect(await campus.getValueText()).toBe('Velmora East Campus');
       expect(text()).toContain('Choose your campus and case days');
       http.expectNone(isAvailability);
     });
@@ -159,7 +159,7 @@ describe('EquipmentSearch', () => {
       unitId: 9,
       serialNumber: 'MSU-0007',
       depotId: 22,
-      depotName: 'Meridian Europe Depot',
+      depotName: 'Dralvik Europe Depot',
       feasible: false,
       distanceKm: 5896.9,
       transitDays: 7,
@@ -209,7 +209,7 @@ describe('EquipmentSearch', () => {
       const headings = Array.from(harness.routeNativeElement!.querySelectorAll('.model-name')).map(
         (h) => h.textContent!.trim(),
       );
-      expect(headings).toEqual(['Meridian Slimline ureteroscope', 'Meridian Vista imaging tower']);
+      expect(headings).toEqual(['Dralvik U6 slim ureteroscope', 'Dralvik V2 imaging tower']);
       expect(text()).toContain('1 of 2 units fit your dates');
       expect(text()).toContain('2 can be there in time');
       // The first-loan lead time is said once, on the model.
@@ -222,7 +222,7 @@ describe('EquipmentSearch', () => {
       expect(fits).toContain('Can be there for your dates');
       expect(fits).toContain('Arrives by');
       expect(fits).toContain('Wed, Feb 24, 2027'); // deliverBy = 2027-03-01 − 5 days
-      expect(fits).toContain('Ships by');
+      expect(fits).toContain('Ship by');
       expect(fits).toContain('Mon, Feb 22, 2027');
       expect(fits).toContain('340 km · 2 business days in transit');
       // 560 000 minor units of USD (2 decimals, ISO 4217) is $5,600.00.
@@ -312,7 +312,7 @@ describe('EquipmentSearch', () => {
       expect(request.request.params.get('unitId')).toBe('9');
       request.flush({ items: [alternative(9, { unitId: 6, serialNumber: 'MSU-0002' })] });
       await settle();
-      expect(row(9).textContent).toContain('Meridian Slimline ureteroscope · MSU-0002');
+      expect(row(9).textContent).toContain('Dralvik U6 slim ureteroscope · MSU-0002');
       await (await loader.getHarness(MatButtonHarness.with({ text: /^add Add$/ }))).click();
       expect(TestBed.inject(LoanDraft).has(6)).toBe(true);
     });

@@ -204,7 +204,7 @@ export class EquipmentSearch {
   protected readonly campusToday = computed<IsoDate>(() => todayIn(this.campus()?.timeZone));
   protected readonly minDate = computed(() => fromIsoDate(this.campusToday()));
 
-  /** Models offered for "works with", filtered by what is typed. */
+  /** Models offered for "compatible with", filtered by what is typed. */
   protected readonly modelOptions = computed(() => {
     const typed = this.formValue().worksWith;
     const text = typeof typed === 'string' ? typed.trim().toLowerCase() : '';

@@ -29,7 +29,7 @@ const unit: Unit = {
   serialNumber: 'MSU-0001',
   udiDi: '02904711200019',
   homeDepotId: 21,
-  homeDepotName: 'Meridian East Depot',
+  homeDepotName: 'Dralvik East Depot',
   homeDepotTimeZone: 'America/New_York',
   status: 'active',
 };
@@ -56,7 +56,7 @@ describe('UnitPage', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('harbourview', 'buyer')]));
+    TestBed.inject(SessionStore).setUser(person([membership('velmora', 'buyer')]));
     fixture = TestBed.createComponent(UnitPage);
     fixture.componentRef.setInput('unitId', '5');
     fixture.componentRef.setInput('siteId', '11');

@@ -91,18 +91,18 @@ describe('Home', () => {
   afterEach(() => http.verify());
 
   it('greets the person by first name with the organisation and role', async () => {
-    const { fixture } = await render([membership('harbourview', 'buyer')], {
+    const { fixture } = await render([membership('velmora', 'buyer')], {
       '/api/loans?limit=500': { body: { items: [] } },
     });
     const header = fixture.nativeElement.querySelector('ev-page-header');
     expect(header.querySelector('h1').textContent).toMatch(
       /^Good (morning|afternoon|evening), Dana$/,
     );
-    expect(header.textContent).toContain('Harbourview Health · Hospital network · Hospital buyer');
+    expect(header.textContent).toContain('Velmora Health · Hospital network · Hospital buyer');
   });
 
   it('gives a buyer without loans the empty states, plus Members', async () => {
-    const { loader } = await render([membership('harbourview', 'buyer')], {
+    const { loader } = await render([membership('velmora', 'buyer')], {
       '/api/loans?limit=500': { body: { items: [closed, declined] } },
     });
     const cards = await cardTexts(loader);
@@ -117,7 +117,7 @@ describe('Home', () => {
   });
 
   it('tells a buyer which loans need the deposit and which wait for the lender', async () => {
-    const { fixture, asked } = await render([membership('harbourview', 'buyer')], {
+    const { fixture, asked } = await render([membership('velmora', 'buyer')], {
       '/api/loans?limit=500': { body: { items: [requested, confirmed, approved, closed] } },
     });
     expect(asked).toEqual(['/api/loans?limit=500']);
@@ -131,12 +131,12 @@ describe('Home', () => {
       ['Waiting for the lender: EV-2026-000012', '/loans/12'],
     ]);
     expect(items[0]!.querySelector('.item-detail')?.textContent).toBe(
-      'Meridian Surgical Loans approved · cases Mar 1 – 5, 2027',
+      'Dralvik Medical Loans approved · cases Mar 1 – 5, 2027',
     );
   });
 
   it('tells a fleet manager how many requests wait, linking to approvals', async () => {
-    const { fixture, asked } = await render([membership('meridian', 'fleet_manager')], {
+    const { fixture, asked } = await render([membership('dralvik', 'fleet_manager')], {
       '/api/loans?limit=500&state=requested': {
         body: { items: [requested, { ...approved, state: 'requested' }] },
       },
@@ -148,14 +148,14 @@ describe('Home', () => {
     );
     // Longest waiting first.
     expect(Array.from(card.querySelectorAll('.item-title')).map((e) => e.textContent)).toEqual([
-      'EV-2026-000011 · Harbourview Health',
-      'EV-2026-000012 · Harbourview Health',
+      'EV-2026-000011 · Velmora Health',
+      'EV-2026-000012 · Velmora Health',
     ]);
     expect(card.querySelector('a.item')?.getAttribute('href')).toBe('/approvals');
   });
 
   it('gives a coordinator the confirmed loans to ship, and no Members card', async () => {
-    const { loader, fixture } = await render([membership('meridian', 'coordinator')], {
+    const { loader, fixture } = await render([membership('dralvik', 'coordinator')], {
       '/api/loans?limit=500&state=confirmed': { body: { items: [confirmed] } },
     });
     const cards = await cardTexts(loader);
@@ -168,7 +168,7 @@ describe('Home', () => {
   });
 
   it('gives a coordinator an honest empty state when nothing is confirmed', async () => {
-    const { loader } = await render([membership('meridian', 'coordinator')], {
+    const { loader } = await render([membership('dralvik', 'coordinator')], {
       '/api/loans?limit=500&state=confirmed': { body: { items: [] } },
     });
     const cards = await cardTexts(loader);
@@ -184,13 +184,13 @@ describe('Home', () => {
       useFrom: future(30),
       useTo: future(32),
     });
-    const { fixture } = await render([membership('harbourview', 'clinician')], {
+    const { fixture } = await render([membership('velmora', 'clinician')], {
       '/api/loans?limit=500': { body: { items: [approved, upcoming, closed] } },
     });
     const card = fixture.nativeElement.querySelector('li mat-card') as HTMLElement;
     expect(card.querySelector('.headline')?.textContent).toBe('1 loan coming to your campuses');
     expect(card.querySelector('.item-title')?.textContent).toBe(
-      'Meridian Slimline ureteroscope at Harbourview Medical Center',
+      'Dralvik U6 slim ureteroscope at Velmora East Campus',
     );
     expect(card.querySelector('.item-detail')?.textContent).toBe(
       `Arrives by ${formatDay(upcoming.milestones.deliverBy)} · first case ${formatDay(upcoming.useFrom)}`,
@@ -198,7 +198,7 @@ describe('Home', () => {
   });
 
   it('counts the admin’s parked e-mails and links to the outbox', async () => {
-    const { fixture } = await render([membership('meridian', 'admin')], {
+    const { fixture } = await render([membership('dralvik', 'admin')], {
       '/api/admin/outbox?status=parked&limit=200': {
         body: { items: [outboxMessage({ id: 1, subject: 'Loan EV-2026-000011 approved' })] },
       },
@@ -210,7 +210,7 @@ describe('Home', () => {
   });
 
   it('keeps the page when one card fails, and offers to try again', async () => {
-    const { loader, text } = await render([membership('harbourview', 'buyer')], {
+    const { loader, text } = await render([membership('velmora', 'buyer')], {
       '/api/loans?limit=500': {
         status: 503,
         message: 'Something went wrong on our side. Try again in a moment.',
@@ -232,7 +232,7 @@ describe('Home', () => {
       providers: [provideRouter([]), provideHttpClient(), provideHttpClientTesting()],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', 'fleet_manager')]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', 'fleet_manager')]));
     const fixture = TestBed.createComponent(Home);
     await fixture.whenStable();
     const card = fixture.nativeElement.querySelector('li mat-card') as HTMLElement;
@@ -248,7 +248,7 @@ describe('Home', () => {
   });
 
   it('shows the cautions in plain words', async () => {
-    const { text } = await render([membership('harbourview', 'clinician')], {
+    const { text } = await render([membership('velmora', 'clinician')], {
       '/api/loans?limit=500': { body: { items: [] } },
     });
     expect(text()).toContain('it does not certify anyone');
@@ -286,7 +286,7 @@ describe('next steps from loans', () => {
 
   it('marks loans to ship within two days, or late, as needing action', () => {
     const at = (id: number, shipBy: string): Loan => {
-      const l = loan({ id, reference: `EV-2026-0000${id}`, state: 'confirmed' });
+      const l = loan({ id, reference: `EV-2026-${String(id).padStart(6, '0')}`, state: 'confirmed' });
       return { ...l, milestones: { ...l.milestones, shipBy } };
     };
     const summary = shippingSummary(

@@ -90,7 +90,7 @@ describe('DepositSection', () => {
     http = TestBed.inject(HttpTestingController);
     // The viewer is in Chicago; the deadline is shown in their zone.
     TestBed.inject(SessionStore).setUser(
-      person([membership('harbourview', 'buyer')], { timeZone: 'America/Chicago' }),
+      person([membership('velmora', 'buyer')], { timeZone: 'America/Chicago' }),
     );
     fixture = TestBed.createComponent(DepositSection);
     fixture.componentRef.setInput('loan', approved);
@@ -187,7 +187,7 @@ describe('DepositSection', () => {
   it('offers no purchase order without a credit agreement, and says how to get one', async () => {
     await render();
     expect(await loader.getAllHarnesses(MatInputHarness)).toHaveLength(0);
-    expect(text()).toContain('No credit agreement with Meridian Surgical Loans is on file');
+    expect(text()).toContain('No credit agreement with Dralvik Medical Loans is on file');
   });
 
   it('checks the purchase order number as the contract does before sending it', async () => {

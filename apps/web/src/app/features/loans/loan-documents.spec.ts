@@ -61,7 +61,7 @@ describe('LoanDocuments', () => {
     });
     http = TestBed.inject(HttpTestingController);
     TestBed.inject(SessionStore).setUser(
-      person([membership('harbourview', canUpload ? 'buyer' : 'clinician')], {
+      person([membership('velmora', canUpload ? 'buyer' : 'clinician')], {
         timeZone: 'America/New_York',
       }),
     );

@@ -81,7 +81,7 @@ describe('LoanList', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('harbourview', role)]));
+    TestBed.inject(SessionStore).setUser(person([membership('velmora', role)]));
     fixture = TestBed.createComponent(LoanList);
     loader = TestbedHarnessEnvironment.loader(fixture);
     await fixture.whenStable();
@@ -134,7 +134,7 @@ describe('LoanList', () => {
     ]);
     // Requested on, in the viewer's zone (America/New_York).
     expect(await column('requested')).toEqual(['Nov 28, 2026', 'Nov 25, 2026', 'Nov 20, 2026']);
-    expect((await column('campus'))[1]).toBe('Harbourview Lakeshore Hospital');
+    expect((await column('campus'))[1]).toBe('Velmora Lakefront Campus');
   });
 
   it('sorts by deposit', async () => {
@@ -154,7 +154,7 @@ describe('LoanList', () => {
     const filter = await loader.getHarness(
       MatInputHarness.with({ selector: 'input[type="search"]' }),
     );
-    await filter.setValue('lakeshore');
+    await filter.setValue('lakefront');
     expect(await column('reference')).toEqual(['EV-2026-000002']);
     expect(fixture.nativeElement.querySelector('.summary').textContent.trim()).toBe('1 of 3 loans');
     await filter.setValue('imaging tower');

@@ -37,7 +37,7 @@ import { LoanApi } from './loan-api';
 /** A loan with what the table shows already worked out. */
 export interface LoanRow {
   readonly loan: Loan;
-  /** "Kestrel Pathfinder R2 robotic platform + 1 more". */
+  /** "Quorvel R2 robotic platform + 1 more". */
   readonly equipment: string;
   /** The first unit's model. */
   readonly firstModel: string;

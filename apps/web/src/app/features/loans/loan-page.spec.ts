@@ -74,7 +74,7 @@ describe('LoanPage', () => {
     http = TestBed.inject(HttpTestingController);
     // Times in the history follow the viewer's zone: Chicago here, the campus is in New York.
     TestBed.inject(SessionStore).setUser(
-      person([membership(role === 'coordinator' ? 'meridian' : 'harbourview', role)], {
+      person([membership(role === 'coordinator' ? 'dralvik' : 'velmora', role)], {
         timeZone: 'America/Chicago',
       }),
     );
@@ -106,7 +106,7 @@ describe('LoanPage', () => {
     expect(fixture.nativeElement.querySelector('ev-loan-state-chip').textContent).toContain(
       'Approved — deposit due',
     );
-    // Approved, not shipped: the loan works towards "Ships by", whatever today's date.
+    // Approved, not shipped: the loan works towards "Ship by", whatever today's date.
     const current = fixture.nativeElement.querySelector('[aria-current="step"]') as HTMLElement;
     expect(current.dataset['milestone']).toBe('shipBy');
     expect(text()).toContain('The deposit is due before they confirm and ship.');

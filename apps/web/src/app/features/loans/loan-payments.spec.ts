@@ -7,11 +7,11 @@ import { LoanPaymentsCard } from './loan-payments';
 describe('LoanPaymentsCard', () => {
   async function render(payments: ReturnType<typeof loanPayments>) {
     TestBed.inject(SessionStore).setUser(
-      person([membership('meridian', 'coordinator')], { timeZone: 'America/New_York' }),
+      person([membership('dralvik', 'coordinator')], { timeZone: 'America/New_York' }),
     );
     const fixture = TestBed.createComponent(LoanPaymentsCard);
     fixture.componentRef.setInput('deposit', { amount: 560_000, currency: 'USD' });
-    fixture.componentRef.setInput('lenderName', 'Meridian Surgical Loans');
+    fixture.componentRef.setInput('lenderName', 'Dralvik Medical Loans');
     fixture.componentRef.setInput('payments', payments);
     await fixture.whenStable();
     const el = fixture.nativeElement as HTMLElement;

@@ -98,7 +98,7 @@ describe('LoanRequest', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('harbourview', 'buyer')]));
+    TestBed.inject(SessionStore).setUser(person([membership('velmora', 'buyer')]));
     harness = await RouterTestingHarness.create();
   });
 
@@ -186,14 +186,14 @@ describe('LoanRequest', () => {
       unitId: 40,
       serialNumber: 'MIP-0001',
       modelId: 6,
-      modelName: 'Meridian irrigation pump',
+      modelName: 'Dralvik irrigation pump',
       category: 'fluid_management',
       milestones: milestonesFor(useFrom, useTo),
     });
     const busyPump = { ...pump, unitId: 41, serialNumber: 'MIP-0002', feasible: false };
     await answerChecks([scope, tower], [spareScope, pump, busyPump, { ...tower }]);
     await click(/Next: units/);
-    expect(text()).toContain('Works with your units');
+    expect(text()).toContain('Compatible with your units');
     // Offered: units of other models that fit. Not offered: more units of the chosen models,
     // and units that do not fit the days.
     expect(text()).toContain('MIP-0001');
@@ -212,7 +212,7 @@ describe('LoanRequest', () => {
     await open();
     await goToReview();
     const review = text();
-    expect(review).toContain('Harbourview Medical Center');
+    expect(review).toContain('Velmora East Campus');
     expect(review).toContain(formatWindow(useFrom, useTo));
     // $5,600.00 + $9,500.00
     expect(review).toContain('$15,100.00');
@@ -249,7 +249,7 @@ describe('LoanRequest', () => {
     expect(TestBed.inject(LoanDraft).count()).toBe(0);
     const snack = await root.getHarness(MatSnackBarHarness);
     expect(await snack.getMessage()).toBe(
-      'Request EV-2027-000077 sent to Meridian Surgical Loans.',
+      'Request EV-2027-000077 sent to Dralvik Medical Loans.',
     );
   });
 
@@ -268,7 +268,7 @@ describe('LoanRequest', () => {
           error: {
             code: 'unit_unavailable',
             message:
-              'Not booked: Meridian Slimline ureteroscope MSU-0001 is not available for these dates.',
+              'Not booked: Dralvik U6 slim ureteroscope MSU-0001 is not available for these dates.',
             details: {
               conflicts: [
                 {
@@ -309,7 +309,7 @@ describe('LoanRequest', () => {
       expect(panel.getAttribute('role')).toBe('alert');
       expect(panel.textContent).toContain('Not sent: some units are no longer free');
       expect(panel.textContent).toContain(
-        'Meridian Slimline ureteroscope MSU-0001 — Booked by another hospital',
+        'Dralvik U6 slim ureteroscope MSU-0001 — Booked by another hospital',
       );
       // Same length of window (3 days) from the earliest first case day.
       expect(panel.textContent).toContain(

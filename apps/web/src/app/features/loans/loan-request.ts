@@ -402,7 +402,7 @@ export class LoanRequest {
             ? { useFrom: c.earliestUseFrom, useTo: addDays(c.earliestUseFrom, length - 1) }
             : null,
           // Only units of the same model can take the refused unit's place; the server's other
-          // suggestions (compatible models) are equipment that works with it, not a substitute.
+          // suggestions (compatible models) are equipment compatible with it, not a substitute.
           alternatives: details.alternatives.filter(
             (a) => a.forUnitId === c.unitId && a.relation === 'same_model',
           ),

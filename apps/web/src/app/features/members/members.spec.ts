@@ -19,15 +19,15 @@ import { SessionStore } from '../../core/session-store';
 import { membership, organisations, person } from '../../testing/people';
 import { Members } from './members';
 
-const orgId = organisations.harbourview.id;
+const orgId = organisations.velmora.id;
 const listUrl = `/api/organisations/${orgId}/members`;
 
-/** Invented people of Harbourview Health. */
+/** Invented people of Velmora Health. */
 const team: Member[] = [
   {
     userId: 101,
     membershipId: 1,
-    email: 'dana.whitlock@harbourview.example',
+    email: 'dana.whitlock@velmora.example',
     name: 'Dana Whitlock',
     role: 'buyer',
     active: true,
@@ -37,7 +37,7 @@ const team: Member[] = [
   {
     userId: 102,
     membershipId: 2,
-    email: 'ravi.okafor@harbourview.example',
+    email: 'ravi.okafor@velmora.example',
     name: 'Ravi Okafor',
     role: 'clinician',
     active: true,
@@ -47,7 +47,7 @@ const team: Member[] = [
   {
     userId: 103,
     membershipId: 3,
-    email: 'lena.marsh@harbourview.example',
+    email: 'lena.marsh@velmora.example',
     name: 'Lena Marsh',
     role: 'clinician',
     active: true,
@@ -57,7 +57,7 @@ const team: Member[] = [
   {
     userId: 104,
     membershipId: 4,
-    email: 'tom.becker@harbourview.example',
+    email: 'tom.becker@velmora.example',
     name: 'Tom Becker',
     role: 'buyer',
     active: false,
@@ -87,7 +87,7 @@ describe('Members', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('harbourview', 'buyer')]));
+    TestBed.inject(SessionStore).setUser(person([membership('velmora', 'buyer')]));
     fixture = TestBed.createComponent(Members);
     fixture.componentRef.setInput('orgId', String(orgId));
     loader = TestbedHarnessEnvironment.loader(fixture);
@@ -286,7 +286,7 @@ describe('Members', () => {
       )?.setValue('  Priya Nandakumar ');
       await (
         await (await fieldIn(dialog, 'E-mail address')).getControl(MatInputHarness)
-      )?.setValue('Priya.Nandakumar@Harbourview.example');
+      )?.setValue('Priya.Nandakumar@Velmora.example');
       const role = await (await fieldIn(dialog, 'Role')).getControl(MatSelectHarness);
       await role?.clickOptions({ text: 'Clinician' });
       await (await dialog.getHarness(MatButtonHarness.with({ text: 'Send invitation' }))).click();
@@ -294,7 +294,7 @@ describe('Members', () => {
       const request = http.expectOne(`/api/organisations/${orgId}/invitations`);
       expect(request.request.body).toEqual({
         name: 'Priya Nandakumar',
-        email: 'priya.nandakumar@harbourview.example',
+        email: 'priya.nandakumar@velmora.example',
         role: 'clinician',
       });
       request.flush({}, { status: 201, statusText: 'Created' });
@@ -311,7 +311,7 @@ describe('Members', () => {
       )?.setValue('Ravi Okafor');
       await (
         await (await fieldIn(dialog, 'E-mail address')).getControl(MatInputHarness)
-      )?.setValue('ravi.okafor@harbourview.example');
+      )?.setValue('ravi.okafor@velmora.example');
       await (
         await (await fieldIn(dialog, 'Role')).getControl(MatSelectHarness)
       )?.clickOptions({ text: 'Clinician' });

@@ -48,7 +48,7 @@ describe('NotificationList', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', 'coordinator')]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', 'coordinator')]));
     fixture = TestBed.createComponent(NotificationList);
     loader = TestbedHarnessEnvironment.loader(fixture);
     await fixture.whenStable();

@@ -24,7 +24,7 @@ const approvedMail = outboxMessage({
 const confirmedMail = outboxMessage({
   id: 8,
   subject: 'Loan EV-2026-000012 confirmed',
-  to: ['priya.lennox@meridian.example'],
+  to: ['priya.lennox@dralvik.example'],
   attachmentCount: 1,
   attempts: 10,
   lastError: 'connect ECONNREFUSED 127.0.0.1:1025',
@@ -52,7 +52,7 @@ describe('OutboxPage', () => {
     });
     http = TestBed.inject(HttpTestingController);
     TestBed.inject(SessionStore).setUser(
-      person([membership('meridian', 'admin')], { timeZone: 'America/New_York' }),
+      person([membership('dralvik', 'admin')], { timeZone: 'America/New_York' }),
     );
     fixture = TestBed.createComponent(OutboxPage);
     loader = TestbedHarnessEnvironment.loader(fixture);
@@ -71,8 +71,8 @@ describe('OutboxPage', () => {
     const table = await loader.getHarness(MatTableHarness);
     const rows = await table.getCellTextByColumnName();
     expect(rows['to']!.text).toEqual([
-      'dana.whitlock@harbourview.example',
-      'priya.lennox@meridian.example',
+      'dana.whitlock@velmora.example',
+      'priya.lennox@dralvik.example',
     ]);
     expect(rows['subject']!.text).toEqual([
       'Loan EV-2026-000011 approved: secure the deposit',
@@ -100,7 +100,7 @@ describe('OutboxPage', () => {
 
     await buttons[0]!.click();
     dialog = await root.getHarness(MatDialogHarness);
-    expect(await dialog.getText()).toContain('dana.whitlock@harbourview.example');
+    expect(await dialog.getText()).toContain('dana.whitlock@velmora.example');
     await (await dialog.getHarness(MatButtonHarness.with({ text: 'Send again' }))).click();
     const resend = http.expectOne('/api/admin/outbox/7/resend');
     expect(resend.request.method).toBe('POST');

@@ -78,13 +78,13 @@ describe('SignIn', () => {
   it('signs in, stores the person and goes to the return address', async () => {
     const navigate = jest.spyOn(TestBed.inject(Router), 'navigateByUrl').mockResolvedValue(true);
     fixture.componentRef.setInput('returnUrl', '/loans');
-    await signInWith('dana.whitlock@harbourview.example', 'evalon-demo');
+    await signInWith('dana.whitlock@velmora.example', 'evalon-demo');
     const request = http.expectOne('/api/auth/login');
     expect(request.request.body).toEqual({
-      email: 'dana.whitlock@harbourview.example',
+      email: 'dana.whitlock@velmora.example',
       password: 'evalon-demo',
     });
-    request.flush({ user: person([membership('harbourview', 'buyer')]) });
+    request.flush({ user: person([membership('velmora', 'buyer')]) });
     await settle();
     expect(TestBed.inject(SessionStore).user()?.name).toBe('Dana Whitlock');
     expect(navigate).toHaveBeenCalledWith('/loans');
@@ -93,13 +93,13 @@ describe('SignIn', () => {
   it('never follows a return address to another site', async () => {
     const navigate = jest.spyOn(TestBed.inject(Router), 'navigateByUrl').mockResolvedValue(true);
     fixture.componentRef.setInput('returnUrl', '//elsewhere.example/phish');
-    await signInWith('dana.whitlock@harbourview.example', 'evalon-demo');
-    await answerLogin(200, { user: person([membership('harbourview', 'buyer')]) });
+    await signInWith('dana.whitlock@velmora.example', 'evalon-demo');
+    await answerLogin(200, { user: person([membership('velmora', 'buyer')]) });
     expect(navigate).toHaveBeenCalledWith('/');
   });
 
   it('says the e-mail and password do not match on 401 invalid_credentials, and clears the password', async () => {
-    await signInWith('dana.whitlock@harbourview.example', 'wrong-password');
+    await signInWith('dana.whitlock@velmora.example', 'wrong-password');
     await answerLogin(401, {
       error: { code: 'invalid_credentials', message: 'Invalid credentials' },
     });
@@ -111,13 +111,13 @@ describe('SignIn', () => {
   });
 
   it('says the account is deactivated on 401 account_deactivated', async () => {
-    await signInWith('former.member@harbourview.example', 'evalon-demo');
+    await signInWith('former.member@velmora.example', 'evalon-demo');
     await answerLogin(401, { error: { code: 'account_deactivated', message: 'Deactivated' } });
     expect(alertText()).toMatch(/^This account has been deactivated\./);
   });
 
   it('tells how long to wait on 429, from Retry-After', async () => {
-    await signInWith('dana.whitlock@harbourview.example', 'evalon-demo');
+    await signInWith('dana.whitlock@velmora.example', 'evalon-demo');
     await answerLogin(
       429,
       { error: { code: 'rate_limited', message: 'Too many requests' } },
@@ -127,7 +127,7 @@ describe('SignIn', () => {
   });
 
   it("tells how long to wait on the server's 429 too_many_attempts, from Retry-After", async () => {
-    await signInWith('dana.whitlock@harbourview.example', 'evalon-demo');
+    await signInWith('dana.whitlock@velmora.example', 'evalon-demo');
     await answerLogin(
       429,
       { error: { code: 'too_many_attempts', message: 'Too many sign-in attempts.' } },

@@ -49,7 +49,7 @@ describe('UnitDetail', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', role)]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', role)]));
     fixture = TestBed.createComponent(UnitDetail);
     fixture.componentRef.setInput('unitId', '7001');
     loader = TestbedHarnessEnvironment.loader(fixture);
@@ -74,7 +74,7 @@ describe('UnitDetail', () => {
   it('lists coming holds in order and opens the calendar on the next one', async () => {
     await open('fleet_manager');
     expect(holdTexts()).toEqual([
-      'Mar 1 – Mar 12, 2099 · 12 days | Loan EV-2027-000101 · Harbourview Health',
+      'Mar 1 – Mar 12, 2099 · 12 days | Loan EV-2027-000101 · Velmora Health',
       'Mar 20 – Mar 22, 2099 · 3 days | Maintenance: Annual service',
     ]);
     expect(fixture.nativeElement.querySelector('ev-hold-calendar').textContent).toContain(

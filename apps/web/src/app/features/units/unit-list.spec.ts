@@ -32,14 +32,14 @@ const units: Unit[] = [
     id: 7002,
     serialNumber: 'MV-0002',
     homeDepotId: 502,
-    homeDepotName: 'Meridian Rhine Depot',
+    homeDepotName: 'Dralvik Central Depot',
     homeDepotTimeZone: 'Europe/Berlin',
     status: 'maintenance',
   }),
   fleetUnit({
     id: 7003,
     modelId: 42,
-    modelName: 'Meridian Atlas robotic platform',
+    modelName: 'Dralvik A5 robotic platform',
     category: 'robotic_platform',
     serialNumber: 'MA-0001',
     udiDi: null,
@@ -69,7 +69,7 @@ describe('UnitList', () => {
       ],
     });
     http = TestBed.inject(HttpTestingController);
-    TestBed.inject(SessionStore).setUser(person([membership('meridian', role)]));
+    TestBed.inject(SessionStore).setUser(person([membership('dralvik', role)]));
     fixture = TestBed.createComponent(UnitList);
     loader = TestbedHarnessEnvironment.loader(fixture);
     root = TestbedHarnessEnvironment.documentRootLoader(fixture);
@@ -104,7 +104,7 @@ describe('UnitList', () => {
     return Promise.all((await table.getRows()).map((row) => row.getCellTextByColumnName()));
   };
 
-  it('lists serial, model, home depot, status and next hold, sorted by serial', async () => {
+  it('lists serial, model, base depot, status and next hold, sorted by serial', async () => {
     await open('fleet_manager');
     await answerHoldLookups();
     const rows = await cells();
@@ -116,8 +116,8 @@ describe('UnitList', () => {
     ]);
     expect(rows[0]!['serial']).toContain('No UDI-DI recorded');
     expect(rows[1]!['serial']).toContain('UDI-DI 02000000000008');
-    expect(rows[1]!['model']).toContain('Meridian Vantage ureteroscope');
-    expect(rows[2]!['depot']).toBe('Meridian Rhine Depot');
+    expect(rows[1]!['model']).toContain('Dralvik U8 ureteroscope');
+    expect(rows[2]!['depot']).toBe('Dralvik Central Depot');
     expect(rows.map((r) => r['status'])).toEqual([
       expect.stringContaining('Available'),
       expect.stringContaining('Available'),
@@ -125,7 +125,7 @@ describe('UnitList', () => {
       expect.stringContaining('Retired'),
     ]);
     expect(rows[1]!['next']).toContain('Mar 1 – Mar 12, 2099');
-    expect(rows[1]!['next']).toContain('Loan EV-2027-000101 · Harbourview Health');
+    expect(rows[1]!['next']).toContain('Loan EV-2027-000101 · Velmora Health');
     expect(rows[0]!['next']).toContain('Nothing booked');
     expect(fixture.nativeElement.querySelector('.summary').textContent).toContain(
       '4 units · 2 available · 1 in maintenance · 1 retired',
@@ -138,7 +138,7 @@ describe('UnitList', () => {
     const table = await loader.getHarness(MatTableHarness);
 
     const search = await loader.getHarness(MatInputHarness.with({ selector: '[type="search"]' }));
-    await search.setValue('atlas');
+    await search.setValue('A5 robotic');
     expect((await cells()).map((r) => r['serial'])).toEqual([expect.stringContaining('MA-0001')]);
     await search.setValue('');
 
@@ -146,9 +146,9 @@ describe('UnitList', () => {
       loader
         .getHarness(MatFormFieldHarness.with({ floatingLabelText: label }))
         .then((f) => f.getControl(MatSelectHarness));
-    await (await select('Model'))!.clickOptions({ text: 'Meridian Vantage ureteroscope' });
+    await (await select('Model'))!.clickOptions({ text: 'Dralvik U8 ureteroscope' });
     expect(await table.getRows()).toHaveLength(3);
-    await (await select('Home depot'))!.clickOptions({ text: 'Meridian Rhine Depot' });
+    await (await select('Base depot'))!.clickOptions({ text: 'Dralvik Central Depot' });
     expect((await cells()).map((r) => r['serial'])).toEqual([expect.stringContaining('MV-0002')]);
     await (await select('Status'))!.clickOptions({ text: 'Retired' });
     expect(await table.getRows()).toHaveLength(0);
@@ -175,7 +175,7 @@ describe('UnitList', () => {
         .getHarness(MatFormFieldHarness.with({ floatingLabelText: label }))
         .then((f) => f.getControl());
     await ((await control('Model')) as MatSelectHarness).clickOptions({
-      text: 'Meridian Lumen laser',
+      text: 'Dralvik L3 laser',
     });
     await ((await control('Serial number')) as MatInputHarness).setValue('ML-0007');
     const udi = (await control('UDI device identifier (GTIN)')) as MatInputHarness;
@@ -192,8 +192,8 @@ describe('UnitList', () => {
       'The last digit is not the GS1 check digit (it should be 3). Check for a typing error.',
     ]);
     await udi.setValue('09521234543213');
-    await ((await control('Home depot')) as MatSelectHarness).clickOptions({
-      text: 'Meridian Rhine Depot',
+    await ((await control('Base depot')) as MatSelectHarness).clickOptions({
+      text: 'Dralvik Central Depot',
     });
     await (await dialog.getHarness(MatButtonHarness.with({ text: 'Add unit' }))).click();
 
@@ -210,12 +210,12 @@ describe('UnitList', () => {
         unit: fleetUnit({
           id: 7010,
           modelId: 43,
-          modelName: 'Meridian Lumen laser',
+          modelName: 'Dralvik L3 laser',
           category: 'laser',
           serialNumber: 'ML-0007',
           udiDi: '09521234543213',
           homeDepotId: 502,
-          homeDepotName: 'Meridian Rhine Depot',
+          homeDepotName: 'Dralvik Central Depot',
           homeDepotTimeZone: 'Europe/Berlin',
         }),
       },

@@ -24,7 +24,7 @@ export class UnitsApi {
     return this.http.post<{ unit: Unit }>('/api/units', input).pipe(map((r) => r.unit));
   }
 
-  /** Changes a unit's serial, UDI device identifier, home depot or status. */
+  /** Changes a unit's serial, UDI device identifier, base depot or status. */
   updateUnit(id: number, update: UnitUpdate): Observable<Unit> {
     return this.http.put<{ unit: Unit }>(`/api/units/${id}`, update).pipe(map((r) => r.unit));
   }

@@ -54,11 +54,11 @@ describe('MilestoneTimeline', () => {
     fixture = TestBed.createComponent(MilestoneTimeline);
     fixture.componentRef.setInput('milestones', milestones);
     fixture.componentRef.setInput('campus', {
-      name: 'Harbourview Lakeshore Hospital',
+      name: 'Velmora Lakefront Campus',
       timeZone: 'America/Chicago',
     });
     fixture.componentRef.setInput('depot', {
-      name: 'Kestrel East Depot',
+      name: 'Quorvel East Depot',
       timeZone: 'America/New_York',
     });
     await fixture.whenStable();
@@ -70,7 +70,7 @@ describe('MilestoneTimeline', () => {
 
   it('lists the seven milestones in order with their days and sites', () => {
     expect(steps().map((li) => li.querySelector('.step-label')!.textContent!.trim())).toEqual([
-      'Ships by',
+      'Ship by',
       'Arrives by',
       'First case',
       'Last case',
@@ -80,8 +80,8 @@ describe('MilestoneTimeline', () => {
     ]);
     expect(steps()[1]!.querySelector('time')!.getAttribute('datetime')).toBe('2026-12-22');
     expect(steps()[1]!.querySelector('time')!.textContent).toBe('Tue, Dec 22, 2026');
-    expect(steps()[0]!.querySelector('.place')!.textContent).toBe('Kestrel East Depot');
-    expect(steps()[2]!.querySelector('.place')!.textContent).toBe('Harbourview Lakeshore Hospital');
+    expect(steps()[0]!.querySelector('.place')!.textContent).toBe('Quorvel East Depot');
+    expect(steps()[2]!.querySelector('.place')!.textContent).toBe('Velmora Lakefront Campus');
     // A plan: nothing done, nothing current.
     expect(statuses()).toEqual(Array(7).fill('upcoming'));
   });

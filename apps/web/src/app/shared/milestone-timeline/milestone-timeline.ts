@@ -25,7 +25,7 @@ interface StepDefinition {
 
 /** The milestones in the order they happen, with our words for them. */
 export const milestoneSteps: readonly StepDefinition[] = [
-  { key: 'shipBy', label: 'Ships by', icon: 'outbox', place: 'depot' },
+  { key: 'shipBy', label: 'Ship by', icon: 'outbox', place: 'depot' },
   { key: 'deliverBy', label: 'Arrives by', icon: 'local_shipping', place: 'campus' },
   { key: 'useFrom', label: 'First case', icon: 'play_circle', place: 'campus' },
   { key: 'useTo', label: 'Last case', icon: 'stop_circle', place: 'campus' },
@@ -82,7 +82,7 @@ export interface TimelineSite {
 }
 
 /**
- * A loan's seven milestones from "Ships by" to "Ready again", each a calendar day in its site's
+ * A loan's seven milestones from "Ship by" to "Ready again", each a calendar day in its site's
  * zone, with the step the loan is working towards highlighted. Horizontal on wide screens,
  * vertical on narrow ones and when `vertical` is set.
  */
@@ -174,7 +174,7 @@ export class MilestoneTimeline {
     });
   });
 
-  /** Names the zones the days are in, e.g. "Days at Harbourview Medical Center are in …". */
+  /** Names the zones the days are in, e.g. "Days at Velmora East Campus are in …". */
   protected readonly zoneNote = computed(() => {
     const campus = this.campus();
     const depot = this.depot();
