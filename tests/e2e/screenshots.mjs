@@ -23,6 +23,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium } from '@playwright/test';
+import retiredNames from '../guards/retired-names.cjs';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 const outDir = path.join(root, 'docs/screenshots');
@@ -41,9 +42,6 @@ const fleet = { email: 'fleet@quorvel.example', firstName: 'Marcus' };
 const coordinator = { email: 'coordinator@quorvel.example', firstName: 'Priya' };
 const proctor = { email: 'proctor@proctors.example', firstName: 'Helena' };
 
-/** Names the demo scenario used before it was renamed; no picture may show one. */
-const retiredNames =
-  /\b(Harbourview|Rheinau|Kestrel|Pathfinder|FlexView|ClearPath|Lumen|Aurora|IrriFlow)\b|home depot/i;
 
 /** Pages whose icons did not draw in the icon font. */
 const problems = [];
@@ -75,8 +73,8 @@ async function shoot(page, file) {
   const iconsOk = await settle(page);
   if (!iconsOk) problems.push(file);
   const text = await page.evaluate(() => document.body.innerText);
-  const retired = text.match(retiredNames);
-  if (retired) throw new Error(`${file}: the page shows the retired name "${retired[0]}"`);
+  const retired = retiredNames.findRetiredName(text);
+  if (retired) throw new Error(`${file}: the page shows the retired name "${retired.name}"`);
   const target = path.join(outDir, file);
   await page.screenshot({ path: target, animations: 'disabled', caret: 'hide' });
   taken.push(file);
