@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { id, isoDate, listOf } from './common';
 import { timeZone } from './identity';
+import { pageOf, pageQuery } from './paging';
 
 /** Categories of equipment a lender lists. */
 export const modelCategories = [
@@ -313,11 +314,30 @@ export const model = z
   .meta({ id: 'Model' });
 export type Model = z.infer<typeof model>;
 export const modelList = listOf(model).meta({ id: 'ModelList' });
+/** Answer of `GET /api/models`: one page, and the units of every matching model. */
+export const modelPage = pageOf(model)
+  .extend({
+    /** Units (not retired) of all matching models, across pages. */
+    unitTotal: z.number().int().min(0),
+  })
+  .meta({ id: 'ModelPage' });
+export type ModelPage = z.infer<typeof modelPage>;
 export const modelResponse = z.object({ model }).meta({ id: 'ModelResponse' });
 
-export const modelQuery = z.object({
+/** Columns `GET /api/models` sorts by; `lender` is lender name, then model name. */
+export const modelSortFields = [
+  'lender',
+  'name',
+  'category',
+  'listValue',
+  'deposit',
+  'units',
+] as const;
+export type ModelSortField = (typeof modelSortFields)[number];
+
+/** `GET /api/models` query: the paging contract (`q`: name or description) and filters. */
+export const modelQuery = pageQuery(modelSortFields, 'lender,asc').extend({
   category: modelCategory.optional(),
-  q: z.string().trim().max(100).optional(),
   compatibleWith: z.coerce.number().int().positive().optional(),
   /** Only this lender's models. */
   lenderId: z.coerce.number().int().positive().optional(),
@@ -375,11 +395,25 @@ export const unit = z
   .meta({ id: 'Unit' });
 export type Unit = z.infer<typeof unit>;
 export const unitList = listOf(unit).meta({ id: 'UnitList' });
+/** Answer of `GET /api/units`: one page, and how many matching units are in each status. */
+export const unitPage = pageOf(unit)
+  .extend({
+    statusCounts: z.array(z.object({ status: unitStatus, count: z.number().int().min(0) })),
+  })
+  .meta({ id: 'UnitPage' });
+export type UnitPage = z.infer<typeof unitPage>;
 export const unitResponse = z.object({ unit }).meta({ id: 'UnitResponse' });
 
-export const unitQuery = z.object({
+/** Columns `GET /api/units` sorts by; `next` is the first day of the unit's next hold. */
+export const unitSortFields = ['model', 'serial', 'depot', 'status', 'next'] as const;
+export type UnitSortField = (typeof unitSortFields)[number];
+
+/** `GET /api/units` query: the paging contract (`q`: serial, UDI-DI or model) and filters. */
+export const unitQuery = pageQuery(unitSortFields, 'model,asc').extend({
   modelId: z.coerce.number().int().positive().optional(),
   lenderId: z.coerce.number().int().positive().optional(),
+  /** Only units based at this depot. */
+  depotId: z.coerce.number().int().positive().optional(),
   status: unitStatus.optional(),
 });
 export type UnitQuery = z.infer<typeof unitQuery>;

@@ -1,15 +1,10 @@
 import { z } from 'zod';
 import { id, listOf } from './common';
+import { pageOf, pageQuery } from './paging';
+import { memberSortFields, roles } from './values/members';
 
-/** Roles a membership can carry; `admin` is the platform operator. */
-export const roles = [
-  'admin',
-  'buyer',
-  'clinician',
-  'proctor',
-  'coordinator',
-  'fleet_manager',
-] as const;
+export * from './values/members';
+
 export const role = z.enum(roles).meta({ id: 'Role' });
 export type Role = z.infer<typeof role>;
 
@@ -195,6 +190,24 @@ export type Member = z.infer<typeof member>;
 /** `GET /api/organisations/:orgId/members`. */
 export const memberList = listOf(member).meta({ id: 'MemberList' });
 export type MemberList = z.infer<typeof memberList>;
+
+/**
+ * `GET /api/organisations/:orgId/members` query: the paging contract; `q` matches name, e-mail,
+ * and the words of a role or a status (`roleLabels`, `memberStatusLabels`).
+ */
+export const memberQuery = pageQuery(memberSortFields, 'name,asc');
+export type MemberQuery = z.infer<typeof memberQuery>;
+
+/** Answer of `GET /api/organisations/:orgId/members`: one page and counts of the matches. */
+export const memberPage = pageOf(member)
+  .extend({
+    /** Matching members whose invitation is still open. */
+    pending: z.number().int().min(0),
+    /** Matching members who were deactivated. */
+    deactivated: z.number().int().min(0),
+  })
+  .meta({ id: 'MemberPage' });
+export type MemberPage = z.infer<typeof memberPage>;
 
 /** Answer of inviting, changing a role, deactivating or reactivating: the member as it is now. */
 export const memberResponse = z.object({ member }).meta({ id: 'MemberResponse' });

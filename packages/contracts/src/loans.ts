@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { id, isoDate, listOf } from './common';
 import { modelCategory, money } from './catalog';
+import { pageOf, pageQuery } from './paging';
 
 export const loanStates = [
   'requested',
@@ -277,13 +278,42 @@ export type Loan = z.infer<typeof loan>;
 export const loanList = listOf(loan).meta({ id: 'LoanList' });
 export const loanResponse = z.object({ loan }).meta({ id: 'LoanResponse' });
 
-export const loanQuery = z.object({
-  state: loanState.optional(),
-  /** Reference, hospital, site, model or serial number contains this. */
-  q: z.string().trim().max(100).optional(),
-  limit: z.coerce.number().int().min(1).max(500).default(100),
+/** Columns `GET /api/loans` sorts by. */
+export const loanSortFields = [
+  'reference',
+  'equipment',
+  'campus',
+  'window',
+  'state',
+  'deposit',
+  'requested',
+] as const;
+export type LoanSortField = (typeof loanSortFields)[number];
+
+/**
+ * `GET /api/loans` query: the paging contract (`q`: reference, hospital, campus, model or serial
+ * number contains it) and `state`, one state or several separated by commas.
+ */
+export const loanQuery = pageQuery(loanSortFields, 'requested,desc').extend({
+  state: z
+    .string()
+    .refine(
+      (s) => s.split(',').every((part) => (loanStates as readonly string[]).includes(part)),
+      'Give loan states separated by commas.',
+    )
+    .optional(),
+  /** Older name of `size` (one page of this many from the first), still accepted. */
+  limit: z.coerce.number().int().min(1).max(500).optional(),
 });
 export type LoanQuery = z.infer<typeof loanQuery>;
+/** Answer of `GET /api/loans`: one page, and how many loans match `q` in each state. */
+export const loanPage = pageOf(loan)
+  .extend({
+    /** Loans matching `q` (not `state`) per state, for the state filter's counts. */
+    stateCounts: z.array(z.object({ state: loanState, count: z.number().int().min(0) })),
+  })
+  .meta({ id: 'LoanPage' });
+export type LoanPage = z.infer<typeof loanPage>;
 export const loanParams = z.object({ id });
 
 /** `GET /api/config/maps`: how the web app loads the maps script. */

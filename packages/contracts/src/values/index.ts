@@ -1,0 +1,7 @@
+/*
+ * `@evalon/contracts/values`: the contracts' plain constants (labels, limits, sortable columns)
+ * without the schema library, so the browser's initial bundle stays free of zod. The schemas in
+ * `@evalon/contracts` import the same values, so there is one copy.
+ */
+export * from './members';
+export * from './paging';
