@@ -2,6 +2,9 @@ import { z } from 'zod';
 import { id, isoDate, listOf } from './common';
 import { timeZone } from './identity';
 import { pageOf, pageQuery } from './paging';
+import { modelSortFields, unitSortFields } from './values/catalog';
+
+export * from './values/catalog';
 
 /** Categories of equipment a lender lists. */
 export const modelCategories = [
@@ -324,16 +327,6 @@ export const modelPage = pageOf(model)
 export type ModelPage = z.infer<typeof modelPage>;
 export const modelResponse = z.object({ model }).meta({ id: 'ModelResponse' });
 
-/** Columns `GET /api/models` sorts by; `lender` is lender name, then model name. */
-export const modelSortFields = [
-  'lender',
-  'name',
-  'category',
-  'listValue',
-  'deposit',
-  'units',
-] as const;
-export type ModelSortField = (typeof modelSortFields)[number];
 
 /** `GET /api/models` query: the paging contract (`q`: name or description) and filters. */
 export const modelQuery = pageQuery(modelSortFields, 'lender,asc').extend({
@@ -404,9 +397,6 @@ export const unitPage = pageOf(unit)
 export type UnitPage = z.infer<typeof unitPage>;
 export const unitResponse = z.object({ unit }).meta({ id: 'UnitResponse' });
 
-/** Columns `GET /api/units` sorts by; `next` is the first day of the unit's next hold. */
-export const unitSortFields = ['model', 'serial', 'depot', 'status', 'next'] as const;
-export type UnitSortField = (typeof unitSortFields)[number];
 
 /** `GET /api/units` query: the paging contract (`q`: serial, UDI-DI or model) and filters. */
 export const unitQuery = pageQuery(unitSortFields, 'model,asc').extend({

@@ -2,6 +2,9 @@ import { z } from 'zod';
 import { id, isoDate, listOf } from './common';
 import { modelCategory, money } from './catalog';
 import { pageOf, pageQuery } from './paging';
+import { loanSortFields } from './values/loans';
+
+export * from './values/loans';
 
 export const loanStates = [
   'requested',
@@ -278,17 +281,6 @@ export type Loan = z.infer<typeof loan>;
 export const loanList = listOf(loan).meta({ id: 'LoanList' });
 export const loanResponse = z.object({ loan }).meta({ id: 'LoanResponse' });
 
-/** Columns `GET /api/loans` sorts by. */
-export const loanSortFields = [
-  'reference',
-  'equipment',
-  'campus',
-  'window',
-  'state',
-  'deposit',
-  'requested',
-] as const;
-export type LoanSortField = (typeof loanSortFields)[number];
 
 /**
  * `GET /api/loans` query: the paging contract (`q`: reference, hospital, campus, model or serial

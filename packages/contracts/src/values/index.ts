@@ -3,5 +3,7 @@
  * without the schema library, so the browser's initial bundle stays free of zod. The schemas in
  * `@evalon/contracts` import the same values, so there is one copy.
  */
+export * from './catalog';
+export * from './loans';
 export * from './members';
 export * from './paging';
