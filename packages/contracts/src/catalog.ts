@@ -327,7 +327,6 @@ export const modelPage = pageOf(model)
 export type ModelPage = z.infer<typeof modelPage>;
 export const modelResponse = z.object({ model }).meta({ id: 'ModelResponse' });
 
-
 /** `GET /api/models` query: the paging contract (`q`: name or description) and filters. */
 export const modelQuery = pageQuery(modelSortFields, 'lender,asc').extend({
   category: modelCategory.optional(),
@@ -396,7 +395,6 @@ export const unitPage = pageOf(unit)
   .meta({ id: 'UnitPage' });
 export type UnitPage = z.infer<typeof unitPage>;
 export const unitResponse = z.object({ unit }).meta({ id: 'UnitResponse' });
-
 
 /** `GET /api/units` query: the paging contract (`q`: serial, UDI-DI or model) and filters. */
 export const unitQuery = pageQuery(unitSortFields, 'model,asc').extend({

@@ -281,7 +281,6 @@ export type Loan = z.infer<typeof loan>;
 export const loanList = listOf(loan).meta({ id: 'LoanList' });
 export const loanResponse = z.object({ loan }).meta({ id: 'LoanResponse' });
 
-
 /**
  * `GET /api/loans` query: the paging contract (`q`: reference, hospital, campus, model or serial
  * number contains it) and `state`, one state or several separated by commas.
