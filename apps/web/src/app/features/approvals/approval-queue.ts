@@ -32,7 +32,7 @@ import {
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { UnitsApi } from '../units/units-api';
-import { describeHold } from '../units/unit-list';
+import { describeHold } from '../../shared/holds';
 import { ApprovalsApi } from './approvals-api';
 import { DeclineDialog, DeclineDialogData } from './decline-dialog';
 

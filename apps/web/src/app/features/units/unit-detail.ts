@@ -24,13 +24,13 @@ import { Cautions } from '../../shared/cautions/cautions';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { CalendarDay, HoldCalendar, monthOf } from '../../shared/hold-calendar/hold-calendar';
+import { describeHold } from '../../shared/holds';
 import { describeZone, formatWindow, todayIn, windowLength } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { modelCategoryLabels, unitStatusIcons, unitStatusLabels } from '../catalog/catalog-rules';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { MaintenanceDialog, MaintenanceDialogData } from './maintenance-dialog';
 import { UnitDialog, UnitDialogData } from './unit-dialog';
-import { describeHold } from './unit-list';
 import { UnitsApi } from './units-api';
 
 /** A hold with what the list shows already worked out. */

@@ -118,7 +118,7 @@ export class ListQuery<F extends string, K extends string = never> {
       sort: isDefaultSort ? null : `${order.field},${order.dir}`,
       q: next.q || null,
     };
-    const filters = { ...next.filters, ...change.filters } as Record<string, string>;
+    const filters = { ...this.request().filters, ...change.filters } as Record<string, string>;
     for (const name of this.options.filters ?? []) queryParams[name] = filters[name] || null;
     void this.router.navigate([], {
       relativeTo: this.route,
