@@ -1,4 +1,5 @@
 import type { UnitStatus } from '@evalon/contracts';
+import type { PillTone } from '../../shared/status-pill/status-pill';
 
 /*
  * Catalogue rules from `@evalon/contracts`, restated as plain values for the browser, in the
@@ -29,6 +30,13 @@ export const unitStatusIcons: Readonly<Record<UnitStatus, string>> = {
   active: 'check_circle',
   maintenance: 'build',
   retired: 'inventory',
+};
+
+/** Pill colour of each unit status. */
+export const unitStatusTones: Readonly<Record<UnitStatus, PillTone>> = {
+  active: 'secondary',
+  maintenance: 'tertiary',
+  retired: 'neutral',
 };
 
 /** Field limits of a model (contract: `modelInput`, `packingItem`, `depositRule`). */

@@ -27,7 +27,13 @@ import { CalendarDay, HoldCalendar, monthOf } from '../../shared/hold-calendar/h
 import { describeHold } from '../../shared/holds';
 import { describeZone, formatWindow, todayIn, windowLength } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
-import { modelCategoryLabels, unitStatusIcons, unitStatusLabels } from '../catalog/catalog-rules';
+import { StatusPill } from '../../shared/status-pill/status-pill';
+import {
+  modelCategoryLabels,
+  unitStatusIcons,
+  unitStatusLabels,
+  unitStatusTones,
+} from '../catalog/catalog-rules';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { MaintenanceDialog, MaintenanceDialogData } from './maintenance-dialog';
 import { UnitDialog, UnitDialogData } from './unit-dialog';
@@ -63,6 +69,7 @@ const earlierShown = 10;
     MatTooltipModule,
     PageHeader,
     RouterLink,
+    StatusPill,
   ],
   templateUrl: './unit-detail.html',
   styleUrl: './unit-detail.scss',
@@ -78,6 +85,7 @@ export class UnitDetail {
   /** `:unitId` from the route. */
   readonly unitId = input.required<string>();
 
+  protected readonly statusTones = unitStatusTones;
   protected readonly id = computed(() => Number(this.unitId()));
   /** Whether the person may change the unit and its maintenance (fleet managers). */
   protected readonly canEdit = computed(() => this.session.hasAnyRole(['fleet_manager']));

@@ -33,10 +33,12 @@ import { describeHold } from '../../shared/holds';
 import { formatWindow, todayIn } from '../../shared/iso-date';
 import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
+import { StatusPill } from '../../shared/status-pill/status-pill';
 import {
   modelCategoryLabels,
   unitStatusIcons,
   unitStatusLabels,
+  unitStatusTones,
   unitStatuses,
 } from '../catalog/catalog-rules';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
@@ -85,6 +87,7 @@ const holdLookups = 4;
     MatTooltipModule,
     PageHeader,
     RouterLink,
+    StatusPill,
   ],
   templateUrl: './unit-list.html',
   styleUrl: './unit-list.scss',
@@ -99,6 +102,7 @@ export class UnitList {
 
   protected readonly statuses = unitStatuses;
   protected readonly statusLabels = unitStatusLabels;
+  protected readonly statusTones = unitStatusTones;
   protected readonly columns = ['serial', 'model', 'depot', 'status', 'next', 'actions'];
 
   protected readonly lender = computed(() => {
