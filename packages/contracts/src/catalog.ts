@@ -1,32 +1,12 @@
 import { z } from 'zod';
+import { modelCategories, modelSortFields, unitSortFields } from './values/catalog';
 import { id, isoDate, listOf } from './common';
 import { timeZone } from './identity';
 import { pageOf, pageQuery } from './paging';
-import { modelSortFields, unitSortFields } from './values/catalog';
 
 export * from './values/catalog';
 
-/** Categories of equipment a lender lists. */
-export const modelCategories = [
-  'robotic_platform',
-  'flexible_endoscope',
-  'laser',
-  'imaging',
-  'fluid_management',
-  'accessory',
-] as const;
 export const modelCategory = z.enum(modelCategories);
-export type ModelCategory = z.infer<typeof modelCategory>;
-
-/** Human labels for categories, shared by screens and e-mails. */
-export const modelCategoryLabels: Record<ModelCategory, string> = {
-  robotic_platform: 'Robotic platform',
-  flexible_endoscope: 'Flexible endoscope',
-  laser: 'Laser system',
-  imaging: 'Imaging tower',
-  fluid_management: 'Fluid management',
-  accessory: 'Accessory',
-};
 
 // ---------------------------------------------------------------------------------------------
 // GS1 identification keys

@@ -18,3 +18,25 @@ export type ModelSortField = (typeof modelSortFields)[number];
 export const unitSortFields = ['model', 'serial', 'depot', 'status', 'next'] as const;
 /** A sortable column of the unit list. */
 export type UnitSortField = (typeof unitSortFields)[number];
+
+/** Categories of equipment a lender lists. */
+export const modelCategories = [
+  'robotic_platform',
+  'flexible_endoscope',
+  'laser',
+  'imaging',
+  'fluid_management',
+  'accessory',
+] as const;
+/** One of `modelCategories`. */
+export type ModelCategory = (typeof modelCategories)[number];
+
+/** Human labels for categories, shared by screens and e-mails. */
+export const modelCategoryLabels: Record<ModelCategory, string> = {
+  robotic_platform: 'Robotic platform',
+  flexible_endoscope: 'Flexible endoscope',
+  laser: 'Laser system',
+  imaging: 'Imaging tower',
+  fluid_management: 'Fluid management',
+  accessory: 'Accessory',
+};

@@ -4,6 +4,9 @@
  * `@evalon/contracts` import the same values, so there is one copy.
  */
 export * from './catalog';
+export * from './identity';
 export * from './loans';
 export * from './members';
+export * from './notifications';
+export * from './payments';
 export * from './paging';

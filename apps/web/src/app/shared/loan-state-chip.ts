@@ -6,7 +6,7 @@ import {
   input,
 } from '@angular/core';
 import type { LoanState } from '@evalon/contracts';
-import { loanStateLabels } from './loan-rules';
+import { loanStateLabels } from '@evalon/contracts/values';
 import { PillTone, StatusPill } from './status-pill/status-pill';
 
 /** How each state reads at a glance: waiting (tertiary), moving (primary), done, stopped. */

@@ -13,7 +13,7 @@ import type { PillTone } from '../../shared/status-pill/status-pill';
  * Model categories and their words live in `shared/loan-rules.ts` (restated there from the
  * contract for the buyer's screens); the catalogue screens import them from there.
  */
-export { modelCategories, modelCategoryLabels } from '../../shared/loan-rules';
+export { modelCategories, modelCategoryLabels } from '@evalon/contracts/values';
 
 /** Statuses of a unit, in the contract's order (contract: `unitStatuses`). */
 export const unitStatuses: readonly UnitStatus[] = ['active', 'maintenance', 'retired'];

@@ -15,7 +15,7 @@ import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
 import { moneyText } from '../../shared/formats';
 import { formatInstant, formatWindowCompact } from '../../shared/iso-date';
 import { LoanDraft } from '../../shared/loan-draft';
-import { loanStateLabels, loanStates } from '../../shared/loan-rules';
+import { loanStateLabels, loanStates } from '@evalon/contracts/values';
 import { LoanStateChip } from '../../shared/loan-state-chip';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LoanApi } from './loan-api';

@@ -12,8 +12,8 @@ import { MatCardModule } from '@angular/material/card';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { LoanPayments, Money, Payment, Refund } from '@evalon/contracts';
 import { SessionStore } from '../../core/session-store';
+import { depositStrategyLabels } from '@evalon/contracts/values';
 import {
-  depositStrategyLabels,
   paymentKindLabels,
   paymentStatusLooks,
   refundReasonLabels,

@@ -13,7 +13,7 @@ import type { Member, MemberPage, Role } from '@evalon/contracts';
 import { memberSortFields } from '@evalon/contracts/values';
 import { DateTime } from 'luxon';
 import { firstValueFrom } from 'rxjs';
-import { allRoles, invitableRoles } from '../../core/contract-rules';
+import { roles as allRoles, invitableRoles } from '@evalon/contracts/values';
 import { Notifier } from '../../core/notifier';
 import { roleLabels } from '../../core/roles';
 import { SessionStore } from '../../core/session-store';
