@@ -33,7 +33,7 @@ import { describeHold } from '../../shared/holds';
 import { formatWindow, todayIn } from '../../shared/iso-date';
 import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
-import { StatusPill } from '../../shared/status-pill/status-pill';
+import { PillTone, StatusPill } from '../../shared/status-pill/status-pill';
 import {
   modelCategoryLabels,
   unitStatusIcons,
@@ -63,6 +63,7 @@ export interface UnitRow {
   readonly unit: Unit;
   readonly statusLabel: string;
   readonly statusIcon: string;
+  readonly statusTone: PillTone;
   readonly categoryLabel: string;
   readonly next: NextHold;
 }
@@ -102,7 +103,6 @@ export class UnitList {
 
   protected readonly statuses = unitStatuses;
   protected readonly statusLabels = unitStatusLabels;
-  protected readonly statusTones = unitStatusTones;
   protected readonly columns = ['serial', 'model', 'depot', 'status', 'next', 'actions'];
 
   protected readonly lender = computed(() => {
@@ -160,6 +160,7 @@ export class UnitList {
         unit,
         statusLabel: unitStatusLabels[unit.status],
         statusIcon: unitStatusIcons[unit.status],
+        statusTone: unitStatusTones[unit.status],
         categoryLabel: modelCategoryLabels[unit.category],
         next: next.get(unit.id) ?? { state: 'loading' },
       }));
