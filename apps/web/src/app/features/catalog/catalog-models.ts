@@ -82,6 +82,7 @@ export class CatalogModels {
         ? throwError(() => noLender('Switch to a lender organisation to see its catalog.'))
         : this.api.modelPage(lenderId, request),
     rows: (answer: ModelPage) => answer.items.map(toRow),
+    key: (row) => row.model.id,
   });
 
   protected readonly summary = computed(() => {

@@ -103,6 +103,7 @@ export class LoanList {
     params: () => this.query.request(),
     load: (request) => this.api.page(request),
     rows: (answer: LoanPage) => answer.items.map((loan) => this.toRow(loan)),
+    key: (row) => row.loan.id,
   });
 
   /** States with loans matching the search, with how many, in lifecycle order. */

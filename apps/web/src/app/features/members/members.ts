@@ -105,6 +105,7 @@ export class Members {
     params: () => ({ organisationId: this.organisationId(), request: this.query.request() }),
     load: ({ organisationId, request }) => this.api.page(organisationId, request),
     rows: (answer: MemberPage) => this.toRows(answer.items),
+    key: (row) => row.member.membershipId,
   });
 
   protected readonly summary = computed(() => {

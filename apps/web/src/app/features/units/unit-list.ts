@@ -165,6 +165,7 @@ export class UnitList {
         next: next.get(unit.id) ?? { state: 'loading' },
       }));
     },
+    key: (row) => row.unit.id,
   });
 
   /**

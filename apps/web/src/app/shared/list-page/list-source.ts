@@ -16,6 +16,11 @@ export interface ListSourceOptions<R, P, A extends Page<unknown>> {
    * `computed`, so signals it reads (e.g. the viewer's time zone) update the rows.
    */
   readonly rows: (answer: A) => readonly R[];
+  /**
+   * What tells rows apart (an id). A row whose id stays keeps its DOM when a page loads again,
+   * so an open menu or a focused control in it survives a reload of the same rows.
+   */
+  readonly key: (row: R) => unknown;
 }
 
 /** What the list's status, no-rows row and paginator read from a {@link ListSource}. */
@@ -55,6 +60,8 @@ export class ListSource<R, P, A extends Page<unknown>>
   /** Why the last request failed, in words; null when it did not. */
   readonly error: Signal<string | null>;
   private readonly rows;
+  /** `trackBy` for the table: rows are the same row when their keys are equal. */
+  readonly trackBy: (index: number, row: R) => unknown;
 
   constructor(options: ListSourceOptions<R, P, A>) {
     super();
@@ -77,6 +84,7 @@ export class ListSource<R, P, A extends Page<unknown>>
       return error ? messageOf(error) : null;
     });
     this.rows = toObservable(this.items);
+    this.trackBy = (_, row) => options.key(row);
   }
 
   /** Changes the rows on hand (e.g. after a change the server confirmed), without a request. */
