@@ -16,7 +16,7 @@ import { Cautions } from '../../shared/cautions/cautions';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { throwError } from 'rxjs';
 import { noLender } from '../../core/api-error';
-import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
+import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
 import { modelCategories, modelCategoryLabels } from './catalog-rules';
@@ -84,6 +84,13 @@ export class CatalogModels {
     rows: (answer: ModelPage) => answer.items.map(toRow),
     key: (row) => row.model.id,
   });
+
+  /** The list as its template's parts see it. */
+  protected readonly list: ListPage = {
+    query: this.query,
+    source: this.models,
+    words: listWords('model', 'models', { error: 'The catalog couldn’t be loaded' }),
+  };
 
   protected readonly summary = computed(() => {
     const answer = this.models.answer();

@@ -11,7 +11,7 @@ import { loanSortFields } from '@evalon/contracts/values';
 import { DateTime } from 'luxon';
 import { SessionStore } from '../../core/session-store';
 import { EmptyState } from '../../shared/empty-state/empty-state';
-import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
+import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { moneyText } from '../../shared/formats';
 import { formatInstant, formatWindowCompact } from '../../shared/iso-date';
 import { LoanDraft } from '../../shared/loan-draft';
@@ -105,6 +105,16 @@ export class LoanList {
     rows: (answer: LoanPage) => answer.items.map((loan) => this.toRow(loan)),
     key: (row) => row.loan.id,
   });
+
+  /** The list as its template's parts see it. */
+  protected readonly list: ListPage = {
+    query: this.query,
+    source: this.loans,
+    words: listWords('loan', 'loans', {
+      noMatch: () => 'No loans match these filters.',
+      clear: 'Show all loans',
+    }),
+  };
 
   /** States with loans matching the search, with how many, in lifecycle order. */
   protected readonly stateOptions = computed(() => {

@@ -19,7 +19,7 @@ import { roleLabels } from '../../core/roles';
 import { SessionStore } from '../../core/session-store';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
-import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
+import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { InviteDialog, InviteDialogData } from './invite-dialog';
 import { MembersApi } from './members-api';
@@ -107,6 +107,19 @@ export class Members {
     rows: (answer: MemberPage) => this.toRows(answer.items),
     key: (row) => row.member.membershipId,
   });
+
+  /** The list as its template's parts see it. */
+  protected readonly list: ListPage = {
+    query: this.query,
+    source: this.members,
+    words: listWords('person', 'members', {
+      noMatch: (q) => `No one matches “${q}”.`,
+      clear: null,
+    }),
+  };
+
+  /** The table's accessible name. */
+  protected readonly tableLabel = computed(() => `Members of ${this.organisationName()}`);
 
   protected readonly summary = computed(() => {
     const answer = this.members.answer();

@@ -31,7 +31,7 @@ import { SessionStore } from '../../core/session-store';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { describeHold } from '../../shared/holds';
 import { formatWindow, todayIn } from '../../shared/iso-date';
-import { ListPageParts, listQuery, listSource } from '../../shared/list-page';
+import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { PillTone, StatusPill } from '../../shared/status-pill/status-pill';
 import {
@@ -167,6 +167,13 @@ export class UnitList {
     },
     key: (row) => row.unit.id,
   });
+
+  /** The list as its template's parts see it. */
+  protected readonly list: ListPage = {
+    query: this.query,
+    source: this.units,
+    words: listWords('unit', 'units'),
+  };
 
   /**
    * Each unit's current or next hold, from today in its depot's calendar, for the units of the

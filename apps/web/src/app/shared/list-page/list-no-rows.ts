@@ -1,12 +1,11 @@
 import { ChangeDetectionStrategy, Component, input } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
-import type { ListQuery } from './list-query';
-import type { ListLoadState } from './list-source';
+import type { ListPage } from './list-page';
 
 /**
  * The row a list's table shows when the page has no rows: "Loading…" before the first answer,
  * else what the search or filters left out, with a button that clears them. Use on the table's
- * `*matNoDataRow` row: `<tr ev-list-no-rows *matNoDataRow ...>`.
+ * `*matNoDataRow` row: `<tr ev-list-no-rows *matNoDataRow [list]="list" [columns]="n"></tr>`.
  */
 @Component({
   // An attribute on the row itself: a custom element inside a table is moved out by the parser.
@@ -15,12 +14,12 @@ import type { ListLoadState } from './list-source';
   imports: [MatButtonModule],
   template: `
     <td [attr.colspan]="columns()">
-      @if (!source().loaded()) {
-        {{ loadingText() }}
-      } @else if (query().narrowed()) {
-        {{ noMatchText() }}
-        @if (clearLabel(); as clear) {
-          <button mat-button type="button" (click)="query().clear()">{{ clear }}</button>
+      @if (!list().source.loaded()) {
+        {{ list().words.loading }}…
+      } @else if (list().query.narrowed()) {
+        {{ list().words.noMatch(list().query.request().q) }}
+        @if (list().words.clear; as clear) {
+          <button mat-button type="button" (click)="list().query.clear()">{{ clear }}</button>
         }
       }
     </td>
@@ -36,14 +35,7 @@ import type { ListLoadState } from './list-source';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class ListNoRows {
-  readonly query = input.required<ListQuery<string, string>>();
-  readonly source = input.required<ListLoadState>();
+  readonly list = input.required<ListPage>();
   /** How many columns the cell spans. */
   readonly columns = input.required<number>();
-  /** e.g. "Loading units…". */
-  readonly loadingText = input.required<string>();
-  /** e.g. "No unit matches these filters." */
-  readonly noMatchText = input.required<string>();
-  /** Label of the button that clears search and filters; null for none. */
-  readonly clearLabel = input<string | null>('Clear filters');
 }

@@ -1,5 +1,5 @@
 import { DataSource } from '@angular/cdk/collections';
-import { Signal, computed, linkedSignal } from '@angular/core';
+import { Signal, TrackByFunction, computed, linkedSignal } from '@angular/core';
 import { rxResource, toObservable } from '@angular/core/rxjs-interop';
 import type { Page } from '@evalon/contracts/values';
 import { Observable } from 'rxjs';
@@ -61,7 +61,7 @@ export class ListSource<R, P, A extends Page<unknown>>
   readonly error: Signal<string | null>;
   private readonly rows;
   /** `trackBy` for the table: rows are the same row when their keys are equal. */
-  readonly trackBy: (index: number, row: R) => unknown;
+  readonly trackBy: TrackByFunction<R>;
 
   constructor(options: ListSourceOptions<R, P, A>) {
     super();
