@@ -5,7 +5,10 @@ const path = require('node:path');
 const tsTransform = {
   '^.+\\.(ts|js|mjs)$': ['ts-jest', { tsconfig: path.join(__dirname, 'tsconfig.jest.json') }],
 };
-const moduleNameMapper = { '^@evalon/([a-z0-9-]+)$': '<rootDir>/packages/$1/src/index.ts' };
+const moduleNameMapper = {
+  '^@evalon/contracts/values$': '<rootDir>/packages/contracts/src/values/index.ts',
+  '^@evalon/([a-z0-9-]+)$': '<rootDir>/packages/$1/src/index.ts',
+};
 // ESM-only dependencies that Jest's CommonJS runtime must have transpiled.
 const esmOnly = [
   '@borewit',
@@ -88,7 +91,10 @@ module.exports = {
           { tsconfig: '<rootDir>/tsconfig.spec.json', stringifyContentPathRegex: '\\.(html|svg)$' },
         ],
       },
-      moduleNameMapper: { '^@evalon/([a-z0-9-]+)$': '<rootDir>/../../packages/$1/src/index.ts' },
+      moduleNameMapper: {
+        '^@evalon/contracts/values$': '<rootDir>/../../packages/contracts/src/values/index.ts',
+        '^@evalon/([a-z0-9-]+)$': '<rootDir>/../../packages/$1/src/index.ts',
+      },
     },
   ],
 };

@@ -99,7 +99,7 @@ async function approveInQueue(page: Page, reference: string): Promise<void> {
     .getByRole('navigation', { name: 'Main' })
     .getByRole('link', { name: 'Approvals' })
     .click();
-  await expect(page.getByRole('heading', { level: 1, name: 'Loan requests' })).toBeVisible();
+  await expect(page.getByRole('heading', { level: 1, name: 'Approvals' })).toBeVisible();
   await page
     .getByRole('navigation', { name: 'Waiting loan requests' })
     .getByRole('button', { name: new RegExp(escapeRegExp(reference)) })

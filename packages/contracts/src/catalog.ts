@@ -1,28 +1,12 @@
 import { z } from 'zod';
+import { modelCategories, modelSortFields, unitSortFields } from './values/catalog';
 import { id, isoDate, listOf } from './common';
 import { timeZone } from './identity';
+import { pageOf, pageQuery } from './paging';
 
-/** Categories of equipment a lender lists. */
-export const modelCategories = [
-  'robotic_platform',
-  'flexible_endoscope',
-  'laser',
-  'imaging',
-  'fluid_management',
-  'accessory',
-] as const;
+export * from './values/catalog';
+
 export const modelCategory = z.enum(modelCategories);
-export type ModelCategory = z.infer<typeof modelCategory>;
-
-/** Human labels for categories, shared by screens and e-mails. */
-export const modelCategoryLabels: Record<ModelCategory, string> = {
-  robotic_platform: 'Robotic platform',
-  flexible_endoscope: 'Flexible endoscope',
-  laser: 'Laser system',
-  imaging: 'Imaging tower',
-  fluid_management: 'Fluid management',
-  accessory: 'Accessory',
-};
 
 // ---------------------------------------------------------------------------------------------
 // GS1 identification keys
@@ -313,11 +297,19 @@ export const model = z
   .meta({ id: 'Model' });
 export type Model = z.infer<typeof model>;
 export const modelList = listOf(model).meta({ id: 'ModelList' });
+/** Answer of `GET /api/models`: one page, and the units of every matching model. */
+export const modelPage = pageOf(model)
+  .extend({
+    /** Units (not retired) of all matching models, across pages. */
+    unitTotal: z.number().int().min(0),
+  })
+  .meta({ id: 'ModelPage' });
+export type ModelPage = z.infer<typeof modelPage>;
 export const modelResponse = z.object({ model }).meta({ id: 'ModelResponse' });
 
-export const modelQuery = z.object({
+/** `GET /api/models` query: the paging contract (`q`: name or description) and filters. */
+export const modelQuery = pageQuery(modelSortFields, 'lender,asc').extend({
   category: modelCategory.optional(),
-  q: z.string().trim().max(100).optional(),
   compatibleWith: z.coerce.number().int().positive().optional(),
   /** Only this lender's models. */
   lenderId: z.coerce.number().int().positive().optional(),
@@ -375,11 +367,21 @@ export const unit = z
   .meta({ id: 'Unit' });
 export type Unit = z.infer<typeof unit>;
 export const unitList = listOf(unit).meta({ id: 'UnitList' });
+/** Answer of `GET /api/units`: one page, and how many matching units are in each status. */
+export const unitPage = pageOf(unit)
+  .extend({
+    statusCounts: z.array(z.object({ status: unitStatus, count: z.number().int().min(0) })),
+  })
+  .meta({ id: 'UnitPage' });
+export type UnitPage = z.infer<typeof unitPage>;
 export const unitResponse = z.object({ unit }).meta({ id: 'UnitResponse' });
 
-export const unitQuery = z.object({
+/** `GET /api/units` query: the paging contract (`q`: serial, UDI-DI or model) and filters. */
+export const unitQuery = pageQuery(unitSortFields, 'model,asc').extend({
   modelId: z.coerce.number().int().positive().optional(),
   lenderId: z.coerce.number().int().positive().optional(),
+  /** Only units based at this depot. */
+  depotId: z.coerce.number().int().positive().optional(),
   status: unitStatus.optional(),
 });
 export type UnitQuery = z.infer<typeof unitQuery>;

@@ -1,72 +1,33 @@
 import { z } from 'zod';
+import {
+  organisationKinds,
+  emailMaxLength,
+  nameMaxLength,
+  passwordRule,
+} from './values/identity';
 import { id, listOf } from './common';
+import { pageOf, pageQuery } from './paging';
+import { memberSortFields, roles } from './values/members';
 
-/** Roles a membership can carry; `admin` is the platform operator. */
-export const roles = [
-  'admin',
-  'buyer',
-  'clinician',
-  'proctor',
-  'coordinator',
-  'fleet_manager',
-] as const;
+export * from './values/identity';
+
+export * from './values/members';
+
 export const role = z.enum(roles).meta({ id: 'Role' });
 export type Role = z.infer<typeof role>;
 
-/** Kinds of organisation on the marketplace (`platform` is the operator's own). */
-export const organisationKinds = ['hospital', 'lender', 'proctor_practice', 'platform'] as const;
 export const organisationKind = z.enum(organisationKinds).meta({ id: 'OrganisationKind' });
-export type OrganisationKind = z.infer<typeof organisationKind>;
-
-/** Roles that make sense in each kind of organisation. */
-export const rolesByKind: Record<OrganisationKind, readonly Role[]> = {
-  hospital: ['buyer', 'clinician'],
-  lender: ['fleet_manager', 'coordinator'],
-  proctor_practice: ['proctor'],
-  platform: ['admin'],
-};
-
-/**
- * Who may invite whom, by the inviter's role inside the same organisation. A platform `admin`
- * may invite any role that fits the organisation's kind (see {@link rolesByKind}) anywhere.
- * Proctor practices are usually one person, so only an admin adds people there.
- */
-export const invitableRolesByRole: Readonly<Partial<Record<Role, readonly Role[]>>> = {
-  buyer: ['buyer', 'clinician'],
-  fleet_manager: ['fleet_manager', 'coordinator'],
-};
-
-/** Roles that look after their organisation's members (invite, change role, deactivate). */
-export const memberManagingRoles: readonly Role[] = ['admin', 'buyer', 'fleet_manager'];
-
-/**
- * Roles a person may hand out in an organisation of `kind`, given the roles they hold there
- * (`isPlatformAdmin` when they are an `admin` of the platform). Empty when they may not invite.
- */
-export function invitableRoles(
-  kind: OrganisationKind,
-  rolesHeldThere: readonly Role[],
-  isPlatformAdmin: boolean,
-): Role[] {
-  const fitting = rolesByKind[kind];
-  if (isPlatformAdmin) return [...fitting];
-  const allowed = new Set<Role>();
-  for (const held of rolesHeldThere) {
-    for (const r of invitableRolesByRole[held] ?? []) if (fitting.includes(r)) allowed.add(r);
-  }
-  return fitting.filter((r) => allowed.has(r));
-}
 
 export const email = z
   .string()
   .trim()
   .toLowerCase()
   .email('Enter a valid e-mail address.')
-  .max(254);
+  .max(emailMaxLength);
 export const password = z
   .string()
-  .min(10, 'Use at least 10 characters.')
-  .max(200, 'Use at most 200 characters.');
+  .min(passwordRule.minLength, passwordRule.tooShort)
+  .max(passwordRule.maxLength, passwordRule.tooLong);
 
 /** Whether `zone` is an IANA time zone name this runtime knows (e.g. `Europe/Berlin`). */
 export function isTimeZone(zone: string): boolean {
@@ -126,7 +87,7 @@ export type CsrfResponse = z.infer<typeof csrfResponse>;
 export const inviteRequest = z
   .object({
     email,
-    name: z.string().trim().min(1, 'Enter the person’s name.').max(120),
+    name: z.string().trim().min(1, 'Enter the person’s name.').max(nameMaxLength),
     role,
   })
   .meta({ id: 'InviteRequest' });
@@ -137,7 +98,7 @@ export const setPasswordRequest = z
   .object({
     token: z.string().min(20).max(200),
     password,
-    name: z.string().trim().min(1).max(120).optional(),
+    name: z.string().trim().min(1).max(nameMaxLength).optional(),
   })
   .meta({ id: 'SetPasswordRequest' });
 export type SetPasswordRequest = z.infer<typeof setPasswordRequest>;
@@ -167,7 +128,7 @@ export type ChangePasswordRequest = z.infer<typeof changePasswordRequest>;
 /** `PATCH /api/auth/me`: the person's own name and time zone (at least one of them). */
 export const updateProfileRequest = z
   .object({
-    name: z.string().trim().min(1, 'Enter your name.').max(120).optional(),
+    name: z.string().trim().min(1, 'Enter your name.').max(nameMaxLength).optional(),
     timeZone: timeZone.nullable().optional(),
   })
   .refine((v) => v.name !== undefined || v.timeZone !== undefined, {
@@ -195,6 +156,24 @@ export type Member = z.infer<typeof member>;
 /** `GET /api/organisations/:orgId/members`. */
 export const memberList = listOf(member).meta({ id: 'MemberList' });
 export type MemberList = z.infer<typeof memberList>;
+
+/**
+ * `GET /api/organisations/:orgId/members` query: the paging contract; `q` matches name, e-mail,
+ * and the words of a role or a status (`roleLabels`, `memberStatusLabels`).
+ */
+export const memberQuery = pageQuery(memberSortFields, 'name,asc');
+export type MemberQuery = z.infer<typeof memberQuery>;
+
+/** Answer of `GET /api/organisations/:orgId/members`: one page and counts of the matches. */
+export const memberPage = pageOf(member)
+  .extend({
+    /** Matching members whose invitation is still open. */
+    pending: z.number().int().min(0),
+    /** Matching members who were deactivated. */
+    deactivated: z.number().int().min(0),
+  })
+  .meta({ id: 'MemberPage' });
+export type MemberPage = z.infer<typeof memberPage>;
 
 /** Answer of inviting, changing a role, deactivating or reactivating: the member as it is now. */
 export const memberResponse = z.object({ member }).meta({ id: 'MemberResponse' });

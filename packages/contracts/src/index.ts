@@ -5,3 +5,5 @@ export * from './loans';
 export * from './system';
 export * from './notifications';
 export * from './payments';
+export * from './paging';
+export * from './values/paging';

@@ -1,52 +1,19 @@
 import { z } from 'zod';
+import {
+  loanNoteMaxLength,
+  loanSortFields,
+  loanStates,
+  maxUnitsPerLoan,
+  reasonRule,
+  unavailableReasons,
+} from './values/loans';
 import { id, isoDate, listOf } from './common';
 import { modelCategory, money } from './catalog';
+import { pageOf, pageQuery } from './paging';
 
-export const loanStates = [
-  'requested',
-  'approved',
-  'confirmed',
-  'shipped',
-  'delivered',
-  'returning',
-  'returned',
-  'closed',
-  'declined',
-  'cancelled',
-  'expired',
-] as const;
+export * from './values/loans';
+
 export const loanState = z.enum(loanStates);
-export type LoanState = z.infer<typeof loanState>;
-
-/** Plain-language labels for loan states (our own words). */
-export const loanStateLabels: Record<LoanState, string> = {
-  requested: 'Waiting for lender',
-  approved: 'Approved — deposit due',
-  confirmed: 'Confirmed',
-  shipped: 'On its way',
-  delivered: 'At the hospital',
-  returning: 'On its way back',
-  returned: 'Back at depot',
-  closed: 'Closed',
-  declined: 'Declined',
-  cancelled: 'Cancelled',
-  expired: 'Expired',
-};
-
-/** Longest use window a loan may ask for, in calendar days (both ends counted). */
-export const maxUseWindowDays = 90;
-/** Most units in one loan. */
-export const maxUnitsPerLoan = 20;
-/** How far ahead the availability search looks for the earliest free window, in days. */
-export const availabilityHorizonDays = 180;
-
-/**
- * The caution every screen and e-mail that shows computed dates or deposits repeats
- * (product brief: estimates until the lender confirms; local rules prevail).
- */
-export const estimateCaution =
-  'Dates and deposits are estimates until the lender confirms the loan; contracts, carriers’ ' +
-  'commitments and local rules prevail.';
 
 export const milestones = z
   .object({
@@ -84,25 +51,7 @@ export const availabilityQuery = z
   .refine(windowOrder.check, windowOrder.message);
 export type AvailabilityQuery = z.infer<typeof availabilityQuery>;
 
-/** Why a unit cannot be lent for the requested window. */
-export const unavailableReasons = [
-  'booked',
-  'booked_by_you',
-  'maintenance',
-  'too_soon',
-  'not_active',
-] as const;
 export const unavailableReason = z.enum(unavailableReasons);
-export type UnavailableReason = z.infer<typeof unavailableReason>;
-
-/** Words shown for each reason (our own). */
-export const unavailableReasonLabels: Record<UnavailableReason, string> = {
-  booked: 'Booked by another hospital',
-  booked_by_you: 'Already booked by your hospital',
-  maintenance: 'In maintenance',
-  too_soon: 'Too soon: it could not arrive in time',
-  not_active: 'Not available for loans',
-};
 
 export const availabilityItem = z
   .object({
@@ -182,7 +131,7 @@ export const createLoanRequest = z
       .min(1, 'Choose at least one unit.')
       .max(maxUnitsPerLoan, `A loan can hold at most ${maxUnitsPerLoan} units.`),
     ...useWindow,
-    note: z.string().trim().max(2000).optional(),
+    note: z.string().trim().max(loanNoteMaxLength).optional(),
   })
   .refine(windowOrder.check, windowOrder.message)
   .refine((r) => new Set(r.unitIds).size === r.unitIds.length, {
@@ -214,7 +163,11 @@ export type UnitUnavailableDetails = z.infer<typeof unitUnavailableDetails>;
 
 export const reasonRequest = z
   .object({
-    reason: z.string().trim().min(3, 'Say why in a few words.').max(1000),
+    reason: z
+      .string()
+      .trim()
+      .min(reasonRule.minLength, reasonRule.tooShort)
+      .max(reasonRule.maxLength),
   })
   .meta({ id: 'ReasonRequest' });
 
@@ -277,13 +230,30 @@ export type Loan = z.infer<typeof loan>;
 export const loanList = listOf(loan).meta({ id: 'LoanList' });
 export const loanResponse = z.object({ loan }).meta({ id: 'LoanResponse' });
 
-export const loanQuery = z.object({
-  state: loanState.optional(),
-  /** Reference, hospital, site, model or serial number contains this. */
-  q: z.string().trim().max(100).optional(),
-  limit: z.coerce.number().int().min(1).max(500).default(100),
+/**
+ * `GET /api/loans` query: the paging contract (`q`: reference, hospital, campus, model or serial
+ * number contains it) and `state`, one state or several separated by commas.
+ */
+export const loanQuery = pageQuery(loanSortFields, 'requested,desc').extend({
+  state: z
+    .string()
+    .refine(
+      (s) => s.split(',').every((part) => (loanStates as readonly string[]).includes(part)),
+      'Give loan states separated by commas.',
+    )
+    .optional(),
+  /** Older name of `size` (one page of this many from the first), still accepted. */
+  limit: z.coerce.number().int().min(1).max(500).optional(),
 });
 export type LoanQuery = z.infer<typeof loanQuery>;
+/** Answer of `GET /api/loans`: one page, and how many loans match `q` in each state. */
+export const loanPage = pageOf(loan)
+  .extend({
+    /** Loans matching `q` (not `state`) per state, for the state filter's counts. */
+    stateCounts: z.array(z.object({ state: loanState, count: z.number().int().min(0) })),
+  })
+  .meta({ id: 'LoanPage' });
+export type LoanPage = z.infer<typeof loanPage>;
 export const loanParams = z.object({ id });
 
 /** `GET /api/config/maps`: how the web app loads the maps script. */

@@ -1,14 +1,10 @@
 import { z } from 'zod';
+import { outboxStatuses } from './values/notifications';
 import { id, listOf } from './common';
 
-/**
- * Where an outbox e-mail stands: `pending` (waiting for its next attempt), `sending` (claimed by
- * a worker), `sent` (the mail server accepted it), `parked` (attempts used up; an admin may
- * send it again).
- */
-export const outboxStatuses = ['pending', 'sending', 'sent', 'parked'] as const;
+export * from './values/notifications';
+
 export const outboxStatus = z.enum(outboxStatuses).meta({ id: 'OutboxStatus' });
-export type OutboxStatus = z.infer<typeof outboxStatus>;
 
 /** `GET /api/admin/outbox` query: one status (parked by default), newest first, paged by id. */
 export const outboxQuery = z.object({

@@ -1,53 +1,22 @@
 import { z } from 'zod';
+import {
+  depositStrategies,
+  paymentKinds,
+  paymentStatuses,
+  loanDocumentKinds,
+  purchaseOrderRule,
+} from './values/payments';
 import { id, listOf } from './common';
 import { money } from './catalog';
 import { loanState } from './loans';
 
-/**
- * How a loan's deposit was (or will be) secured: a card authorisation hold captured at
- * settlement, a card charge refunded at settlement, waived under the hospital's credit agreement
- * with the lender, or nothing to secure (the deposit rules asked for 0).
- */
-export const depositStrategies = [
-  'authorise_hold',
-  'charge_now_refund_later',
-  'credit_agreement',
-  'no_deposit',
-] as const;
+export * from './values/payments';
+
 export const depositStrategy = z.enum(depositStrategies);
-export type DepositStrategyName = z.infer<typeof depositStrategy>;
 
-/** Plain-language labels (our own words). */
-export const depositStrategyLabels: Record<DepositStrategyName, string> = {
-  authorise_hold: 'Held on the card, captured at settlement',
-  charge_now_refund_later: 'Charged to the card, refunded at settlement',
-  credit_agreement: 'Waived: purchase order under the credit agreement',
-  no_deposit: 'No deposit required',
-};
-
-/** A payment row: a card hold, a card charge, or a waiver. */
-export const paymentKinds = ['hold', 'charge', 'waived'] as const;
 export const paymentKind = z.enum(paymentKinds);
-export type PaymentKind = z.infer<typeof paymentKind>;
 
-export const paymentStatuses = [
-  'pending',
-  'authorised',
-  'captured',
-  'partially_refunded',
-  'refunded',
-  'cancelled',
-  'failed',
-  'waived',
-] as const;
 export const paymentStatus = z.enum(paymentStatuses);
-export type PaymentStatus = z.infer<typeof paymentStatus>;
-
-/** The caution shown with deposits (product brief: estimates until the lender confirms). */
-export const depositCaution =
-  'The deposit is refundable security, settled after the return inspection; inspection charges ' +
-  'are deducted, never more than was paid. Amounts are estimates until the lender confirms; ' +
-  'contracts and local rules prevail.';
 
 /** `POST /api/loans/:id/deposit`. */
 export const depositRequest = z
@@ -56,12 +25,11 @@ export const depositRequest = z
     z.object({
       method: z.literal('credit_agreement'),
       purchaseOrderNumber: z
-        .string({ error: 'Enter the purchase order number.' })
+        .string({ error: purchaseOrderRule.required })
         .trim()
-        .min(1, 'Enter the purchase order number.')
-        .max(64, 'A purchase order number has at most 64 characters.')
-        // ASCII only: purchase order numbers travel into other systems' fields and e-mails.
-        .regex(/^[A-Za-z0-9 ._/#-]+$/, 'Use letters, digits, spaces and . _ / # - only.'),
+        .min(1, purchaseOrderRule.required)
+        .max(purchaseOrderRule.maxLength, purchaseOrderRule.tooLong)
+        .regex(purchaseOrderRule.pattern, purchaseOrderRule.badCharacters),
     }),
   ])
   .meta({ id: 'DepositRequest' });
@@ -190,17 +158,7 @@ export const creditAgreementResponse = z
   .object({ creditAgreement })
   .meta({ id: 'CreditAgreementResponse' });
 
-/** Documents a hospital files for a loan. */
-export const loanDocumentKinds = ['purchase_order', 'loan_agreement'] as const;
 export const loanDocumentKind = z.enum(loanDocumentKinds);
-export type LoanDocumentKind = z.infer<typeof loanDocumentKind>;
-export const loanDocumentKindLabels: Record<LoanDocumentKind, string> = {
-  purchase_order: 'Purchase order',
-  loan_agreement: 'Signed loan agreement',
-};
-
-/** Largest document accepted, in bytes (10 MB). */
-export const maxLoanDocumentBytes = 10 * 1024 * 1024;
 
 /** The multipart form fields of `POST /api/loans/:id/documents` besides the `file`. */
 export const loanDocumentUpload = z.object({ kind: loanDocumentKind });

@@ -12,7 +12,7 @@ import {
   lenderParams,
   maintenanceHoldInput,
   modelInput,
-  modelList,
+  modelPage,
   modelParams,
   modelPhotoParams,
   modelQuery,
@@ -23,7 +23,7 @@ import {
   shippingSettingsResponse,
   unitHoldParams,
   unitInput,
-  unitList,
+  unitPage,
   unitParams,
   unitQuery,
   unitResponse,
@@ -178,13 +178,15 @@ export function modelRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): Api
       summary: 'Models of every lender, filtered',
       description:
         '`category`, `q` (name or description contains), `compatibleWith` (models compatible ' +
-        'with that model), `lenderId`. Deposits are estimates until the lender confirms a loan.',
+        'with that model), `lenderId`; one page (`page`, `size`, `sort=field,dir`), by lender ' +
+        'then name unless `sort` says otherwise. Deposits are estimates until the lender ' +
+        'confirms a loan.',
       access: { authenticated: true },
       query: modelQuery,
-      responses: { 200: { description: 'By lender, then name.', schema: modelList } },
+      responses: { 200: { description: 'One page of models.', schema: modelPage } },
     },
     async ({ req, res, query }) => {
-      res.json({ items: await listModels(deps, currentAuth(req), query) });
+      res.json(await listModels(deps, currentAuth(req), query));
     },
   );
 
@@ -321,16 +323,18 @@ export function unitRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): ApiR
       summary: 'Units of a model or a lender',
       description:
         'The lender’s own people see every status; others see units that are not retired. ' +
-        'Without a filter, a person who works for one lender gets that lender’s fleet.',
+        'Without a filter, a person who works for one lender gets that lender’s fleet. ' +
+        '`q` matches serial number, UDI-DI or model; one page (`page`, `size`, `sort=field,dir`), ' +
+        'by model then serial number unless `sort` says otherwise.',
       access: { authenticated: true },
       query: unitQuery,
       responses: {
-        200: { description: 'By model, then serial number.', schema: unitList },
+        200: { description: 'One page of units.', schema: unitPage },
         400: error('`filter_required`.'),
       },
     },
     async ({ req, res, query }) => {
-      res.json({ items: await listUnitsFor(deps, currentAuth(req), query) });
+      res.json(await listUnitsFor(deps, currentAuth(req), query));
     },
   );
 

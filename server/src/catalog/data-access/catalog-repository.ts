@@ -3,10 +3,14 @@ import type {
   Depot,
   DepotInput,
   ModelCategory,
+  ModelSortField,
   PackingItem,
+  PageQuery,
   ShippingSettings,
+  UnitSortField,
   UnitStatus,
 } from '@evalon/contracts';
+import { pageSql } from '../../database/paging';
 import { SiteEntity } from '../../organisations/data-access/entities';
 import {
   LenderSettingsEntity,
@@ -263,15 +267,25 @@ interface ModelSqlRow {
   active_unit_count: string | number;
 }
 
-/** Models matching the filter, by lender name then model name. */
-export async function listModelSummaries(
-  m: EntityManager,
-  filter: ModelFilter,
-): Promise<ModelSummary[]> {
+/** SQL for each sortable column of the model list. */
+const modelSortColumns: Record<ModelSortField, string> = {
+  lender: 'CONCAT(o.name, CHAR(0), m.name)',
+  name: 'm.name',
+  category: 'm.category',
+  listValue: 'm.list_value',
+  // Per-unit deposit as @evalon/deposits computes it (percent of list value, clamped), for the
+  // order only; the half-up rounding there can only tie neighbours, not swap them.
+  deposit:
+    'LEAST(GREATEST(m.list_value * m.deposit_percent_bps / 10000, m.deposit_min), m.deposit_max)',
+  units: 'unit_count',
+};
+
+/** WHERE clause and parameters of a model filter; null when nothing can match. */
+function modelWhere(filter: ModelFilter): { sql: string; params: unknown[] } | null {
   const where: string[] = [];
   const params: unknown[] = [];
   if (filter.ids) {
-    if (filter.ids.length === 0) return [];
+    if (filter.ids.length === 0) return null;
     where.push(`m.id IN (${filter.ids.map(() => '?').join(', ')})`);
     params.push(...filter.ids);
   }
@@ -291,15 +305,48 @@ export async function listModelSummaries(
     where.push('m.id IN (SELECT compatible_model_id FROM model_compatibility WHERE model_id = ?)');
     params.push(filter.compatibleWith);
   }
+  return { sql: where.length ? `WHERE ${where.join(' AND ')}` : '', params };
+}
+
+const unitCounts = `(SELECT COUNT(*) FROM units u WHERE u.model_id = m.id AND u.status <> 'retired') AS unit_count,
+            (SELECT COUNT(*) FROM units u WHERE u.model_id = m.id AND u.status = 'active') AS active_unit_count`;
+
+/** How many models match the filter, and how many units (not retired) they have together. */
+export async function countModels(
+  m: EntityManager,
+  filter: ModelFilter,
+): Promise<{ models: number; units: number }> {
+  const where = modelWhere(filter);
+  if (!where) return { models: 0, units: 0 };
+  const [row]: { models: string | number; units: string | number | null }[] = await m.query(
+    `SELECT COUNT(*) AS models, SUM(c.unit_count) AS units
+       FROM (SELECT ${unitCounts}
+               FROM models m JOIN organisations o ON o.id = m.lender_id ${where.sql}) c`,
+    where.params,
+  );
+  return { models: Number(row?.models ?? 0), units: Number(row?.units ?? 0) };
+}
+
+/**
+ * Models matching the filter: one page in its order, or (without `page`) by lender name then
+ * model name, at most 500.
+ */
+export async function listModelSummaries(
+  m: EntityManager,
+  filter: ModelFilter & { page?: PageQuery },
+): Promise<ModelSummary[]> {
+  const where = modelWhere(filter);
+  if (!where) return [];
+  const order = filter.page
+    ? pageSql(filter.page, modelSortColumns, 'm.id')
+    : { sql: 'ORDER BY o.name, m.name, m.id LIMIT 500', params: [] };
   const rows: ModelSqlRow[] = await m.query(
     `SELECT m.*, o.name AS lender_name,
-            (SELECT COUNT(*) FROM units u WHERE u.model_id = m.id AND u.status <> 'retired') AS unit_count,
-            (SELECT COUNT(*) FROM units u WHERE u.model_id = m.id AND u.status = 'active') AS active_unit_count
+            ${unitCounts}
        FROM models m JOIN organisations o ON o.id = m.lender_id
-      ${where.length ? `WHERE ${where.join(' AND ')}` : ''}
-      ORDER BY o.name, m.name, m.id
-      LIMIT 500`,
-    params,
+      ${where.sql}
+      ${order.sql}`,
+    [...where.params, ...order.params],
   );
   return rows.map((r) => ({
     id: Number(r.id),
@@ -552,8 +599,14 @@ export interface UnitFilter {
   modelId?: number;
   lenderId?: number;
   status?: UnitStatus;
+  /** Only units based at this depot. */
+  depotId?: number;
+  /** Serial number, UDI-DI or model name contains this. */
+  q?: string;
   /** Statuses to leave out (e.g. retired units for people outside the lender). */
   excludeStatuses?: readonly UnitStatus[];
+  /** Retired units show only to these lenders' people; absent = to everyone. */
+  retiredVisibleTo?: readonly number[];
 }
 
 interface UnitSqlRow {
@@ -573,12 +626,24 @@ interface UnitSqlRow {
   depot_time_zone: string;
 }
 
-/** Units matching the filter, by model name then serial number. */
-export async function listUnits(m: EntityManager, filter: UnitFilter): Promise<UnitDetails[]> {
+/** SQL for each sortable column of the unit list. */
+const unitSortColumns: Record<UnitSortField, string> = {
+  model: 'CONCAT(m.name, CHAR(0), u.serial_number)',
+  serial: 'u.serial_number',
+  depot: 'd.name',
+  status: "FIELD(u.status, 'active', 'maintenance', 'retired')",
+  // First day of the current or next hold. The server's date stands in for the depot's: at most
+  // a day apart, and only for the order (the list shows each unit's hold from its own calendar).
+  next: `(SELECT MIN(h.start_date) FROM holds h
+           WHERE h.unit_id = u.id AND h.end_date >= UTC_DATE())`,
+};
+
+/** WHERE clause and parameters of a unit filter; null when nothing can match. */
+function unitWhere(filter: UnitFilter): { sql: string; params: unknown[] } | null {
   const where: string[] = [];
   const params: unknown[] = [];
   if (filter.ids) {
-    if (filter.ids.length === 0) return [];
+    if (filter.ids.length === 0) return null;
     where.push(`u.id IN (${filter.ids.map(() => '?').join(', ')})`);
     params.push(...filter.ids);
   }
@@ -590,6 +655,10 @@ export async function listUnits(m: EntityManager, filter: UnitFilter): Promise<U
     where.push('m.lender_id = ?');
     params.push(filter.lenderId);
   }
+  if (filter.depotId) {
+    where.push('u.home_depot_id = ?');
+    params.push(filter.depotId);
+  }
   if (filter.status) {
     where.push('u.status = ?');
     params.push(filter.status);
@@ -598,14 +667,60 @@ export async function listUnits(m: EntityManager, filter: UnitFilter): Promise<U
     where.push(`u.status NOT IN (${filter.excludeStatuses.map(() => '?').join(', ')})`);
     params.push(...filter.excludeStatuses);
   }
+  if (filter.retiredVisibleTo) {
+    const lenders = filter.retiredVisibleTo;
+    where.push(
+      lenders.length
+        ? `(u.status <> 'retired' OR m.lender_id IN (${lenders.map(() => '?').join(', ')}))`
+        : "u.status <> 'retired'",
+    );
+    params.push(...lenders);
+  }
+  if (filter.q) {
+    const p = likePattern(filter.q);
+    where.push('(u.serial_number LIKE ? OR u.udi_di LIKE ? OR m.name LIKE ?)');
+    params.push(p, p, p);
+  }
+  return { sql: where.length ? `WHERE ${where.join(' AND ')}` : '', params };
+}
+
+const unitFrom =
+  'FROM units u JOIN models m ON m.id = u.model_id JOIN sites d ON d.id = u.home_depot_id';
+
+/** How many units match the filter, per status (statuses without units are left out). */
+export async function countUnitsByStatus(
+  m: EntityManager,
+  filter: UnitFilter,
+): Promise<{ status: UnitStatus; count: number }[]> {
+  const where = unitWhere(filter);
+  if (!where) return [];
+  const rows: { status: UnitStatus; count: string | number }[] = await m.query(
+    `SELECT u.status AS status, COUNT(*) AS count ${unitFrom} ${where.sql} GROUP BY u.status`,
+    where.params,
+  );
+  return rows.map((r) => ({ status: r.status, count: Number(r.count) }));
+}
+
+/**
+ * Units matching the filter: one page in its order, or (without `page`) by model name then
+ * serial number, at most 2000.
+ */
+export async function listUnits(
+  m: EntityManager,
+  filter: UnitFilter & { page?: PageQuery },
+): Promise<UnitDetails[]> {
+  const where = unitWhere(filter);
+  if (!where) return [];
+  const order = filter.page
+    ? pageSql(filter.page, unitSortColumns, 'u.id', ['next'])
+    : { sql: 'ORDER BY m.name, u.serial_number, u.id LIMIT 2000', params: [] };
   const rows: UnitSqlRow[] = await m.query(
     `SELECT u.*, m.name AS model_name, m.category, m.lender_id, d.name AS depot_name,
             d.time_zone AS depot_time_zone
-       FROM units u JOIN models m ON m.id = u.model_id JOIN sites d ON d.id = u.home_depot_id
-      ${where.length ? `WHERE ${where.join(' AND ')}` : ''}
-      ORDER BY m.name, u.serial_number, u.id
-      LIMIT 2000`,
-    params,
+       ${unitFrom}
+      ${where.sql}
+      ${order.sql}`,
+    [...where.params, ...order.params],
   );
   return rows.map((r) => ({
     id: Number(r.id),

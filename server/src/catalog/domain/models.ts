@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import type { Model, ModelInput, ModelQuery, Photo } from '@evalon/contracts';
+import type { Model, ModelInput, ModelPage, ModelQuery, Photo } from '@evalon/contracts';
 import { DepositError, depositForModel } from '@evalon/deposits';
 import { AppError } from '../../http/errors';
 import type { AuthContext } from '../../identity/domain/auth-context';
@@ -8,6 +8,7 @@ import {
   findModelsByIds,
   findOrganisationKind,
   insertModel,
+  countModels,
   listModelSummaries,
   loadModelParts,
   modelNameTaken,
@@ -104,10 +105,25 @@ export async function listModels(
   deps: CatalogDeps,
   auth: AuthContext,
   query: ModelQuery,
-): Promise<Model[]> {
+): Promise<ModelPage> {
   const m = deps.dataSource.manager;
-  const summaries = await listModelSummaries(m, query);
-  return toModels(m, auth, summaries);
+  const filter = {
+    category: query.category,
+    q: query.q,
+    compatibleWith: query.compatibleWith,
+    lenderId: query.lenderId,
+  };
+  const [summaries, counts] = await Promise.all([
+    listModelSummaries(m, { ...filter, page: query }),
+    countModels(m, filter),
+  ]);
+  return {
+    items: await toModels(m, auth, summaries),
+    total: counts.models,
+    page: query.page,
+    size: query.size,
+    unitTotal: counts.units,
+  };
 }
 
 /** One model; 404 when there is none. */

@@ -5,6 +5,7 @@ import type {
   MaintenanceHoldInput,
   Unit,
   UnitInput,
+  UnitPage,
   UnitQuery,
   UnitUpdate,
 } from '@evalon/contracts';
@@ -13,6 +14,7 @@ import { AppError } from '../../http/errors';
 import type { AuthContext } from '../../identity/domain/auth-context';
 import {
   bumpBookingVersion,
+  countUnitsByStatus,
   findDepot,
   findModel,
   insertUnit,
@@ -58,7 +60,7 @@ export async function listUnitsFor(
   deps: CatalogDeps,
   auth: AuthContext,
   query: UnitQuery,
-): Promise<Unit[]> {
+): Promise<UnitPage> {
   let lenderId = query.lenderId;
   if (query.modelId === undefined && lenderId === undefined) {
     const lenders = lendersOf(auth);
@@ -70,15 +72,27 @@ export async function listUnitsFor(
     }
     lenderId = lenders[0];
   }
-  const rows = await listUnits(deps.dataSource.manager, {
+  const filter = {
     modelId: query.modelId,
     lenderId,
+    depotId: query.depotId,
     status: query.status,
-  });
-  const visible = rows.filter(
-    (u) => auth.isPlatformAdmin || worksForLender(auth, u.lenderId) || u.status !== 'retired',
-  );
-  return visible.map(toUnit);
+    q: query.q,
+    // Retired units only for their lender's own people (and the admin).
+    retiredVisibleTo: auth.isPlatformAdmin ? undefined : lendersOf(auth),
+  };
+  const m = deps.dataSource.manager;
+  const [rows, statusCounts] = await Promise.all([
+    listUnits(m, { ...filter, page: query }),
+    countUnitsByStatus(m, filter),
+  ]);
+  return {
+    items: rows.map(toUnit),
+    total: statusCounts.reduce((sum, c) => sum + c.count, 0),
+    page: query.page,
+    size: query.size,
+    statusCounts,
+  };
 }
 
 async function unitDetails(m: EntityManager, unitId: number): Promise<UnitDetails | null> {

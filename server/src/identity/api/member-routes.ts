@@ -2,7 +2,8 @@ import {
   changeRoleRequest,
   errorBody,
   inviteRequest,
-  memberList,
+  memberPage,
+  memberQuery,
   memberManagingRoles,
   memberResponse,
   membershipParams,
@@ -32,16 +33,20 @@ export function memberRoutes(deps: IdentityDeps, catalogue: CatalogueEntry[]): A
     {
       method: 'get',
       path: '/:orgId/members',
-      summary: 'Members of an organisation',
+      summary: 'Members of an organisation, one page',
+      description:
+        '`q` matches name, e-mail, or the words of a role or a status; one page (`page`, ' +
+        '`size`, `sort=field,dir`), by name unless `sort` says otherwise.',
       access: managers,
       params: organisationParams,
+      query: memberQuery,
       responses: {
-        200: { description: 'Members by name.', schema: memberList },
+        200: { description: 'One page of members.', schema: memberPage },
         403: error('Not a manager here.'),
       },
     },
-    async ({ res, params }) => {
-      res.json({ items: await listOrganisationMembers(deps, params.orgId) });
+    async ({ res, params, query }) => {
+      res.json(await listOrganisationMembers(deps, params.orgId, query));
     },
   );
 

@@ -1,5 +1,19 @@
 import type { EntityManager } from 'typeorm';
-import type { Member, Membership, Role, SessionUser } from '@evalon/contracts';
+import {
+  memberStatusLabels,
+  memberStatuses,
+  roleLabels,
+  roles,
+  type Member,
+  type MemberSortField,
+  type MemberStatus,
+  type Membership,
+  type PageQuery,
+  type Role,
+  type SessionUser,
+} from '@evalon/contracts';
+import { likePattern } from '../../catalog/data-access/catalog-repository';
+import { pageSql } from '../../database/paging';
 import type { ManagingCandidate } from '../domain/policy';
 import {
   MembershipEntity,
@@ -189,6 +203,51 @@ function toMember(r: MemberQueryRow): Member {
   };
 }
 
+/** Member status in SQL, the same rule as {@link toMember}: deactivated wins over pending. */
+const memberStatusSql = `CASE WHEN u.active = 0 THEN 'deactivated'
+  WHEN u.password_hash IS NULL AND u.last_sign_in_at IS NULL THEN 'pending' ELSE 'active' END`;
+
+/** SQL list of values sorted by their words, for `FIELD(...)`: the order people read. */
+function byLabel<K extends string>(keys: readonly K[], labels: Record<K, string>): string {
+  return [...keys]
+    .sort((a, b) => labels[a].localeCompare(labels[b]))
+    .map((k) => `'${k}'`)
+    .join(', ');
+}
+
+/** SQL for each sortable column of the member list. */
+const memberSortColumns: Record<MemberSortField, string> = {
+  name: 'CONCAT(u.name, CHAR(0), u.email)',
+  role: `FIELD(ms.role, ${byLabel(roles, roleLabels)})`,
+  status: `FIELD(${memberStatusSql}, ${byLabel(memberStatuses, memberStatusLabels)})`,
+  lastSignIn: 'u.last_sign_in_at',
+};
+
+/** WHERE clause of a member search: name or e-mail contains `q`, or a role's or status's words. */
+function memberWhere(organisationId: number, q: string | undefined) {
+  const where = ['ms.organisation_id = ?'];
+  const params: unknown[] = [organisationId];
+  if (q) {
+    const words = q.toLocaleLowerCase();
+    const parts = ['u.name LIKE ?', 'u.email LIKE ?'];
+    params.push(likePattern(q), likePattern(q));
+    const roleHits = roles.filter((r) => roleLabels[r].toLocaleLowerCase().includes(words));
+    if (roleHits.length) {
+      parts.push(`ms.role IN (${roleHits.map(() => '?').join(', ')})`);
+      params.push(...roleHits);
+    }
+    const statusHits = memberStatuses.filter((st) =>
+      memberStatusLabels[st].toLocaleLowerCase().includes(words),
+    );
+    if (statusHits.length) {
+      parts.push(`${memberStatusSql} IN (${statusHits.map(() => '?').join(', ')})`);
+      params.push(...statusHits);
+    }
+    where.push(`(${parts.join(' OR ')})`);
+  }
+  return { sql: `WHERE ${where.join(' AND ')}`, params };
+}
+
 /** Members of an organisation, by name. */
 export async function listMembers(m: EntityManager, organisationId: number): Promise<Member[]> {
   const rows: MemberQueryRow[] = await m.query(
@@ -196,6 +255,38 @@ export async function listMembers(m: EntityManager, organisationId: number): Pro
     [organisationId],
   );
   return rows.map(toMember);
+}
+
+/** One page of an organisation's members matching `q`, in the order asked for. */
+export async function findMemberPage(
+  m: EntityManager,
+  organisationId: number,
+  query: PageQuery,
+): Promise<Member[]> {
+  const where = memberWhere(organisationId, query.q);
+  const order = pageSql(query, memberSortColumns, 'ms.id');
+  const rows: MemberQueryRow[] = await m.query(`${memberSelect} ${where.sql} ${order.sql}`, [
+    ...where.params,
+    ...order.params,
+  ]);
+  return rows.map(toMember);
+}
+
+/** How many of an organisation's members match `q`, per status. */
+export async function countMembers(
+  m: EntityManager,
+  organisationId: number,
+  q: string | undefined,
+): Promise<Record<MemberStatus, number>> {
+  const where = memberWhere(organisationId, q);
+  const rows: { status: MemberStatus; count: string | number }[] = await m.query(
+    `SELECT ${memberStatusSql} AS status, COUNT(*) AS count
+       FROM memberships ms JOIN users u ON u.id = ms.user_id ${where.sql} GROUP BY status`,
+    where.params,
+  );
+  const counts: Record<MemberStatus, number> = { active: 0, pending: 0, deactivated: 0 };
+  for (const r of rows) counts[r.status] = Number(r.count);
+  return counts;
 }
 
 /** One member by membership id, or null. */

@@ -2,6 +2,8 @@ import type { EntityManager } from 'typeorm';
 import type {
   InviteRequest,
   Member,
+  MemberPage,
+  MemberQuery,
   Organisation,
   Role,
   SetPasswordRequest,
@@ -21,7 +23,8 @@ import {
   insertMembership,
   insertToken,
   insertUser,
-  listMembers,
+  countMembers,
+  findMemberPage,
   lockManagingCandidates,
   lockTokenByHash,
   organisationIdsOfUser,
@@ -49,12 +52,25 @@ async function lockOrganisation(m: EntityManager, organisationId: number): Promi
   return organisation;
 }
 
-/** Members of an organisation (access is checked by the route). */
-export function listOrganisationMembers(
+/** One page of an organisation's members (access is checked by the route). */
+export async function listOrganisationMembers(
   deps: IdentityDeps,
   organisationId: number,
-): Promise<Member[]> {
-  return listMembers(deps.dataSource.manager, organisationId);
+  query: MemberQuery,
+): Promise<MemberPage> {
+  const m = deps.dataSource.manager;
+  const [items, counts] = await Promise.all([
+    findMemberPage(m, organisationId, query),
+    countMembers(m, organisationId, query.q),
+  ]);
+  return {
+    items,
+    total: counts.active + counts.pending + counts.deactivated,
+    page: query.page,
+    size: query.size,
+    pending: counts.pending,
+    deactivated: counts.deactivated,
+  };
 }
 
 /**

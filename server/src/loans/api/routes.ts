@@ -2,7 +2,7 @@ import { z } from 'zod';
 import {
   createLoanRequest,
   errorBody,
-  loanList,
+  loanPage,
   loanParams,
   loanQuery,
   loanResponse,
@@ -67,18 +67,19 @@ export function loanRoutes(deps: LoanDeps, catalogue: CatalogueEntry[]): ApiRout
     {
       method: 'get',
       path: '/',
-      summary: 'Loans you may see, newest first',
+      summary: 'Loans you may see, one page (newest first unless `sort` says otherwise)',
       description:
         'Hospital buyers and clinicians: their hospital’s loans; fleet managers and ' +
         'coordinators: their lender’s; the admin: all. Filter by `state` (the approval queue ' +
-        'is `state=requested`) and `q` (reference, hospital, campus, model or serial number). ' +
+        'is `state=requested`; several states separated by commas) and `q` (reference, hospital, ' +
+        'campus, model or serial number); page with `page`, `size` and `sort=field,dir`. ' +
         'A unit’s calendar is `GET /api/units/:id/holds`.',
       access: { authenticated: true },
       query: loanQuery,
-      responses: { 200: { description: 'Loans.', schema: loanList } },
+      responses: { 200: { description: 'One page of loans.', schema: loanPage } },
     },
     async ({ req, res, query }) => {
-      res.json({ items: await listLoans(deps, currentAuth(req), query) });
+      res.json(await listLoans(deps, currentAuth(req), query));
     },
   );
 

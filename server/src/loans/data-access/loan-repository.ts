@@ -1,6 +1,14 @@
 import type { EntityManager } from 'typeorm';
-import type { LoanEvent, LoanState, Milestones } from '@evalon/contracts';
+import {
+  loanStates,
+  type LoanEvent,
+  type LoanSortField,
+  type LoanState,
+  type Milestones,
+  type PageQuery,
+} from '@evalon/contracts';
 import { likePattern } from '../../catalog/data-access/catalog-repository';
+import { pageSql } from '../../database/paging';
 import { LoanEntity, type LoanRow } from './entities';
 
 /** A new loan's fields. */
@@ -196,9 +204,83 @@ export interface LoanFilter {
   ids?: readonly number[];
   /** Only loans of these hospitals or these lenders; absent = all (platform admin). */
   scope?: { hospitalIds: readonly number[]; lenderIds: readonly number[] };
-  state?: LoanState;
+  /** Only loans in one of these states. */
+  states?: readonly LoanState[];
   q?: string;
-  limit: number;
+  /** Which page, in which order; absent = newest first, `limit` rows. */
+  page?: PageQuery;
+  limit?: number;
+}
+
+/** SQL for each sortable column of the loan list. */
+const loanSortColumns: Record<LoanSortField, string> = {
+  reference: 'l.reference',
+  equipment: `(SELECT MIN(md.name) FROM loan_units lu JOIN models md ON md.id = lu.model_id
+                WHERE lu.loan_id = l.id)`,
+  campus: 's.name',
+  window: 'l.use_from',
+  state: `FIELD(l.state, ${loanStates.map((st) => `'${st}'`).join(', ')})`,
+  deposit: 'l.deposit_amount',
+  requested: 'l.created_at',
+};
+
+/** WHERE clause and parameters of a loan filter (without paging); null when nothing can match. */
+function loanWhere(
+  filter: Omit<LoanFilter, 'page' | 'limit'>,
+): { sql: string; params: unknown[] } | null {
+  const where: string[] = [];
+  const params: unknown[] = [];
+  if (filter.ids) {
+    if (filter.ids.length === 0) return null;
+    where.push(`l.id IN (${filter.ids.map(() => '?').join(', ')})`);
+    params.push(...filter.ids);
+  }
+  if (filter.scope) {
+    const { hospitalIds, lenderIds } = filter.scope;
+    const parts: string[] = [];
+    if (hospitalIds.length) {
+      parts.push(`l.hospital_id IN (${hospitalIds.map(() => '?').join(', ')})`);
+      params.push(...hospitalIds);
+    }
+    if (lenderIds.length) {
+      parts.push(`l.lender_id IN (${lenderIds.map(() => '?').join(', ')})`);
+      params.push(...lenderIds);
+    }
+    if (parts.length === 0) return null;
+    where.push(`(${parts.join(' OR ')})`);
+  }
+  if (filter.states?.length) {
+    where.push(`l.state IN (${filter.states.map(() => '?').join(', ')})`);
+    params.push(...filter.states);
+  }
+  if (filter.q) {
+    const p = likePattern(filter.q);
+    where.push(`(l.reference LIKE ? OR h.name LIKE ? OR s.name LIKE ? OR EXISTS (
+      SELECT 1 FROM loan_units lu JOIN units u ON u.id = lu.unit_id JOIN models md ON md.id = lu.model_id
+       WHERE lu.loan_id = l.id AND (u.serial_number LIKE ? OR md.name LIKE ?)))`);
+    params.push(p, p, p, p, p);
+  }
+  return { sql: where.length ? `WHERE ${where.join(' AND ')}` : '', params };
+}
+
+const loanFrom = `FROM loans l
+       JOIN organisations h ON h.id = l.hospital_id
+       JOIN organisations ln ON ln.id = l.lender_id
+       JOIN sites s ON s.id = l.site_id
+       JOIN users u ON u.id = l.requested_by_user_id`;
+
+/** How many loans match the filter, per state (states without loans are left out). */
+export async function countLoansByState(
+  m: EntityManager,
+  filter: Omit<LoanFilter, 'page' | 'limit'>,
+): Promise<{ state: LoanState; count: number }[]> {
+  const where = loanWhere(filter);
+  if (!where) return [];
+  const rows: { state: LoanState; count: string | number }[] = await m.query(
+    `SELECT l.state AS state, COUNT(*) AS count ${loanFrom} ${where.sql} GROUP BY l.state`,
+    where.params,
+  );
+  return rows.map((r) => ({ state: r.state, count: Number(r.count) }));
 }
 
 const dates = (alias: string) =>
@@ -251,55 +333,22 @@ function milestonesOf(r: {
   };
 }
 
-/** Loans matching the filter, newest first. */
+/** Loans matching the filter: one page in its order, or newest first up to `limit`. */
 export async function findLoans(m: EntityManager, filter: LoanFilter): Promise<LoanView[]> {
-  const where: string[] = [];
-  const params: unknown[] = [];
-  if (filter.ids) {
-    if (filter.ids.length === 0) return [];
-    where.push(`l.id IN (${filter.ids.map(() => '?').join(', ')})`);
-    params.push(...filter.ids);
-  }
-  if (filter.scope) {
-    const { hospitalIds, lenderIds } = filter.scope;
-    const parts: string[] = [];
-    if (hospitalIds.length) {
-      parts.push(`l.hospital_id IN (${hospitalIds.map(() => '?').join(', ')})`);
-      params.push(...hospitalIds);
-    }
-    if (lenderIds.length) {
-      parts.push(`l.lender_id IN (${lenderIds.map(() => '?').join(', ')})`);
-      params.push(...lenderIds);
-    }
-    if (parts.length === 0) return [];
-    where.push(`(${parts.join(' OR ')})`);
-  }
-  if (filter.state) {
-    where.push('l.state = ?');
-    params.push(filter.state);
-  }
-  if (filter.q) {
-    const p = likePattern(filter.q);
-    where.push(`(l.reference LIKE ? OR h.name LIKE ? OR s.name LIKE ? OR EXISTS (
-      SELECT 1 FROM loan_units lu JOIN units u ON u.id = lu.unit_id JOIN models md ON md.id = lu.model_id
-       WHERE lu.loan_id = l.id AND (u.serial_number LIKE ? OR md.name LIKE ?)))`);
-    params.push(p, p, p, p, p);
-  }
-  params.push(filter.limit);
+  const where = loanWhere(filter);
+  if (!where) return [];
+  const order = filter.page
+    ? pageSql(filter.page, loanSortColumns, 'l.id')
+    : { sql: 'ORDER BY l.id DESC LIMIT ?', params: [filter.limit ?? 100] };
   const rows: LoanSqlRow[] = await m.query(
     `SELECT l.id, l.reference, l.state, l.hospital_id, h.name AS hospital_name, l.site_id,
             s.name AS site_name, l.site_time_zone, l.lender_id, ln.name AS lender_name,
             ${dates('l')}, l.deposit_amount, l.deposit_currency, l.note,
             u.name AS requested_by, l.created_at
-       FROM loans l
-       JOIN organisations h ON h.id = l.hospital_id
-       JOIN organisations ln ON ln.id = l.lender_id
-       JOIN sites s ON s.id = l.site_id
-       JOIN users u ON u.id = l.requested_by_user_id
-      ${where.length ? `WHERE ${where.join(' AND ')}` : ''}
-      ORDER BY l.id DESC
-      LIMIT ?`,
-    params,
+       ${loanFrom}
+      ${where.sql}
+      ${order.sql}`,
+    [...where.params, ...order.params],
   );
   return rows.map((r) => ({
     id: Number(r.id),

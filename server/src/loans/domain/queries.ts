@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import type { Loan, LoanQuery } from '@evalon/contracts';
+import type { Loan, LoanPage, LoanQuery, LoanState } from '@evalon/contracts';
 import { AppError } from '../../http/errors';
 import type { AuthContext } from '../../identity/domain/auth-context';
 import {
@@ -10,6 +10,7 @@ import {
   worksForLender,
 } from '../../catalog/domain/scope';
 import {
+  countLoansByState,
   findLoanEvents,
   findLoans,
   findLoanUnits,
@@ -75,27 +76,37 @@ export function toLoan(
 }
 
 /**
- * Loans the person may see, newest first: a hospital's buyers and clinicians see their
- * hospital's loans, a lender's fleet managers and coordinators their lender's, the admin all.
- * A fleet manager's approval queue is `state=requested`.
+ * Loans the person may see, one page: a hospital's buyers and clinicians see their hospital's
+ * loans, a lender's fleet managers and coordinators their lender's, the admin all. A fleet
+ * manager's approval queue is `state=requested`. The answer counts the loans matching `q` in each
+ * state, so the list can offer its state filter with numbers; `total` is the sum over the
+ * states asked for.
  */
 export async function listLoans(
   deps: Pick<LoanDeps, 'dataSource'>,
   auth: AuthContext,
   query: LoanQuery,
-): Promise<Loan[]> {
+): Promise<LoanPage> {
   const m = deps.dataSource.manager;
-  const views = await findLoans(m, {
+  // `limit` is the older way to ask for the first `limit` loans.
+  const page = query.limit ? { ...query, page: 0, size: query.limit } : query;
+  const states = query.state ? (query.state.split(',') as LoanState[]) : undefined;
+  const filter = {
     scope: auth.isPlatformAdmin
       ? undefined
       : {
           hospitalIds: organisationsWithRole(auth, ['buyer', 'clinician']),
           lenderIds: organisationsWithRole(auth, ['fleet_manager', 'coordinator']),
         },
-    state: query.state,
     q: query.q,
-    limit: query.limit,
-  });
+  };
+  const [views, stateCounts] = await Promise.all([
+    findLoans(m, { ...filter, states, page }),
+    countLoansByState(m, filter),
+  ]);
+  const total = stateCounts
+    .filter((c) => !states || states.includes(c.state))
+    .reduce((sum, c) => sum + c.count, 0);
   const units = await findLoanUnits(
     m,
     views.map((v) => v.id),
@@ -106,7 +117,13 @@ export async function listLoans(
     if (list) list.push(u);
     else byLoan.set(u.loanId, [u]);
   }
-  return views.map((v) => toLoan(auth, v, byLoan.get(v.id) ?? []));
+  return {
+    items: views.map((v) => toLoan(auth, v, byLoan.get(v.id) ?? [])),
+    total,
+    page: page.page,
+    size: page.size,
+    stateCounts,
+  };
 }
 
 /**

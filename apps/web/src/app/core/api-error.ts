@@ -126,3 +126,8 @@ export function messageOf(error: unknown): string {
   if (error instanceof HttpErrorResponse) return toApiError(error).message;
   return 'Something unexpected happened. Try again, and reload the page if it keeps happening.';
 }
+
+/** The error a lender's page shows when the active organisation is not a lender. */
+export function noLender(message: string): ApiError {
+  return new ApiError(0, 'no_lender', message);
+}

@@ -1,5 +1,5 @@
 import type { Role } from '@evalon/contracts';
-import { memberManagingRoles } from './contract-rules';
+import { memberManagingRoles } from '@evalon/contracts/values';
 
 /** A page of the product that appears in the side navigation for some roles. */
 export interface Destination {

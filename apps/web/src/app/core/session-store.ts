@@ -4,7 +4,7 @@ import { firstValueFrom } from 'rxjs';
 import { ApiError } from './api-error';
 import { AuthApi } from './auth-api';
 import { hasAnyRole } from './navigation';
-import { memberManagingRoles } from './contract-rules';
+import { memberManagingRoles } from '@evalon/contracts/values';
 
 /** An organisation the signed-in person belongs to. */
 export interface OrganisationChoice {

@@ -6,7 +6,7 @@ import {
   Validators,
 } from '@angular/forms';
 import { IsoDate, toIsoDate, windowLength } from './iso-date';
-import { maxUseWindowDays } from './loan-rules';
+import { maxUseWindowDays } from '@evalon/contracts/values';
 
 /** The two date controls of a case-days range (first and last case day, picker dates). */
 export interface CaseDaysControls {

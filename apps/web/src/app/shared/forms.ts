@@ -1,5 +1,5 @@
 import { AbstractControl, FormGroup, ValidationErrors, ValidatorFn } from '@angular/forms';
-import { passwordRule } from '../core/contract-rules';
+import { passwordRule } from '@evalon/contracts/values';
 
 /**
  * The contract's password rule as a form validator; the error (`password`) carries the contract's

@@ -1,7 +1,7 @@
 import { Injectable, computed, signal } from '@angular/core';
 import type { AvailabilityItem, ModelCategory, Money } from '@evalon/contracts';
 import type { IsoDate } from './iso-date';
-import { maxUnitsPerLoan } from './loan-rules';
+import { maxUnitsPerLoan } from '@evalon/contracts/values';
 
 /** A unit chosen for a loan request, with what the request screens show about it. */
 export interface DraftUnit {

@@ -30,9 +30,10 @@ import {
   TimelineSite,
 } from '../../shared/milestone-timeline/milestone-timeline';
 import { PageHeader } from '../../shared/page-header/page-header';
+import { StatusPill } from '../../shared/status-pill/status-pill';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { UnitsApi } from '../units/units-api';
-import { describeHold } from '../units/unit-list';
+import { describeHold } from '../../shared/holds';
 import { ApprovalsApi } from './approvals-api';
 import { DeclineDialog, DeclineDialogData } from './decline-dialog';
 
@@ -94,6 +95,7 @@ export function equipmentOf(loan: Loan): string {
     MatProgressBarModule,
     MilestoneTimeline,
     PageHeader,
+    StatusPill,
   ],
   templateUrl: './approval-queue.html',
   styleUrl: './approval-queue.scss',

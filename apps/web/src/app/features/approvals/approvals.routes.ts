@@ -2,6 +2,4 @@ import { Routes } from '@angular/router';
 import { ApprovalQueue } from './approval-queue';
 
 /** `/approvals`: the fleet manager's queue of loan requests (`?loan=` picks the one shown). */
-export const approvalsRoutes: Routes = [
-  { path: '', component: ApprovalQueue, title: 'Loan requests' },
-];
+export const approvalsRoutes: Routes = [{ path: '', component: ApprovalQueue, title: 'Approvals' }];

@@ -9,7 +9,7 @@ import type { Loan } from '@evalon/contracts';
 import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { applyServerErrors } from '../../shared/forms';
-import { reasonRule } from '../../shared/loan-rules';
+import { reasonRule } from '@evalon/contracts/values';
 import { trimmedMinLength } from '../catalog/catalog-validators';
 import { ApprovalsApi } from './approvals-api';
 

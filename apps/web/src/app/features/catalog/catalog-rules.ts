@@ -1,4 +1,5 @@
 import type { UnitStatus } from '@evalon/contracts';
+import type { PillTone } from '../../shared/status-pill/status-pill';
 
 /*
  * Catalogue rules from `@evalon/contracts`, restated as plain values for the browser, in the
@@ -12,7 +13,7 @@ import type { UnitStatus } from '@evalon/contracts';
  * Model categories and their words live in `shared/loan-rules.ts` (restated there from the
  * contract for the buyer's screens); the catalogue screens import them from there.
  */
-export { modelCategories, modelCategoryLabels } from '../../shared/loan-rules';
+export { modelCategories, modelCategoryLabels } from '@evalon/contracts/values';
 
 /** Statuses of a unit, in the contract's order (contract: `unitStatuses`). */
 export const unitStatuses: readonly UnitStatus[] = ['active', 'maintenance', 'retired'];
@@ -29,6 +30,13 @@ export const unitStatusIcons: Readonly<Record<UnitStatus, string>> = {
   active: 'check_circle',
   maintenance: 'build',
   retired: 'inventory',
+};
+
+/** Pill colour of each unit status. */
+export const unitStatusTones: Readonly<Record<UnitStatus, PillTone>> = {
+  active: 'secondary',
+  maintenance: 'tertiary',
+  retired: 'neutral',
 };
 
 /** Field limits of a model (contract: `modelInput`, `packingItem`, `depositRule`). */

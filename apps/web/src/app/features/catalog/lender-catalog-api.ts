@@ -5,11 +5,13 @@ import type {
   DepotInput,
   Model,
   ModelInput,
+  ModelPage,
   Photo,
   ShippingSettings,
   ShippingSettingsResponse,
 } from '@evalon/contracts';
 import { Observable, map } from 'rxjs';
+import { listParams, type ListRequest } from '../../shared/list-page';
 
 /**
  * Talks to the catalogue part of the API: a lender's models and their photos
@@ -24,6 +26,12 @@ export class LenderCatalogApi {
   models(lenderId: number): Observable<Model[]> {
     const params = new HttpParams().set('lenderId', lenderId);
     return this.http.get<{ items: Model[] }>('/api/models', { params }).pipe(map((r) => r.items));
+  }
+
+  /** One page of the lender's models (`category` is the list's one filter). */
+  modelPage(lenderId: number, request: ListRequest<'category'>): Observable<ModelPage> {
+    const params = listParams(request).set('lenderId', lenderId);
+    return this.http.get<ModelPage>('/api/models', { params });
   }
 
   /** One model with its packing list, compatibility and photos. */

@@ -24,6 +24,7 @@ import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
+import { StatusPill } from '../../shared/status-pill/status-pill';
 import { CreditAgreementsApi, KnownHospital } from './credit-agreements-api';
 
 /** One hospital in the table: its agreement (if one was ever recorded) and its loans with us. */
@@ -79,6 +80,7 @@ export function agreementRows(
     MatSlideToggle,
     MatTableModule,
     PageHeader,
+    StatusPill,
   ],
   templateUrl: './credit-agreements.html',
   styleUrl: './credit-agreements.scss',

@@ -49,7 +49,7 @@ import {
   maxUseWindowDays,
   modelCategories,
   modelCategoryLabels,
-} from '../../shared/loan-rules';
+} from '@evalon/contracts/values';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { AvailabilityRow, DatesChoice, SearchWindow } from './availability-row';
 

@@ -30,7 +30,7 @@ import { DayPipe, MoneyPipe, WindowPipe } from '../../shared/formats';
 import { CalendarRange, HoldCalendar, monthOf } from '../../shared/hold-calendar/hold-calendar';
 import { addDays, describeZone, isIsoDate, todayIn } from '../../shared/iso-date';
 import { LoanDraft, addOutcomeMessage, draftUnitOf } from '../../shared/loan-draft';
-import { modelCategoryLabels } from '../../shared/loan-rules';
+import { modelCategoryLabels } from '@evalon/contracts/values';
 import { MapsLoader } from '../../shared/maps-loader';
 import { PageHeader } from '../../shared/page-header/page-header';
 

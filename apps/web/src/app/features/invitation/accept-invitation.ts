@@ -9,7 +9,7 @@ import { Router, RouterLink } from '@angular/router';
 import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { AuthApi } from '../../core/auth-api';
-import { nameMaxLength } from '../../core/contract-rules';
+import { nameMaxLength } from '@evalon/contracts/values';
 import { SessionStore } from '../../core/session-store';
 import { AuthFrame } from '../../shared/auth-frame/auth-frame';
 import { applyServerErrors, matchesSibling, passwordValidator } from '../../shared/forms';

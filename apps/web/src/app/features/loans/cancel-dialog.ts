@@ -6,7 +6,7 @@ import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import type { Loan } from '@evalon/contracts';
 import { messageOf } from '../../core/api-error';
-import { reasonRule } from '../../shared/loan-rules';
+import { reasonRule } from '@evalon/contracts/values';
 import { LoanApi } from './loan-api';
 
 /** The loan to cancel. */

@@ -48,11 +48,11 @@ import { Notifier } from '../../core/notifier';
 import { SessionStore } from '../../core/session-store';
 import {
   depositCaution,
-  depositStrategyExplanations,
   depositStrategyLabels,
   purchaseOrderProblem,
   purchaseOrderRule,
-} from '../../shared/deposit-rules';
+} from '@evalon/contracts/values';
+import { depositStrategyExplanations } from '../../shared/deposit-rules';
 import { ExternalNavigation } from '../../shared/external-navigation';
 import { MoneyPipe } from '../../shared/formats';
 import { formatInstant } from '../../shared/iso-date';

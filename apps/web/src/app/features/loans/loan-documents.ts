@@ -23,7 +23,7 @@ import {
   loanDocumentKindLabels,
   loanDocumentKinds,
   maxLoanDocumentBytes,
-} from '../../shared/deposit-rules';
+} from '@evalon/contracts/values';
 import { formatInstant } from '../../shared/iso-date';
 import { PaymentsApi } from './payments-api';
 

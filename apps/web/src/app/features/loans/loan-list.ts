@@ -1,35 +1,21 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  DestroyRef,
-  LOCALE_ID,
-  computed,
-  effect,
-  inject,
-  signal,
-  viewChild,
-} from '@angular/core';
-import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
+import { ChangeDetectionStrategy, Component, LOCALE_ID, computed, inject } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatChipListboxChange, MatChipsModule } from '@angular/material/chips';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
-import { MatPaginator, MatPaginatorModule } from '@angular/material/paginator';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { MatSort, MatSortModule } from '@angular/material/sort';
-import { MatTableDataSource, MatTableModule } from '@angular/material/table';
+import { MatSortModule } from '@angular/material/sort';
+import { MatTableModule } from '@angular/material/table';
 import { RouterLink } from '@angular/router';
-import type { Loan, LoanState } from '@evalon/contracts';
+import type { Loan, LoanPage, LoanState } from '@evalon/contracts';
+import { loanSortFields } from '@evalon/contracts/values';
 import { DateTime } from 'luxon';
-import { messageOf } from '../../core/api-error';
 import { SessionStore } from '../../core/session-store';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { moneyText } from '../../shared/formats';
 import { formatInstant, formatWindowCompact } from '../../shared/iso-date';
 import { LoanDraft } from '../../shared/loan-draft';
-import { loanStateLabels, loanStates } from '../../shared/loan-rules';
+import { loanStateLabels, loanStates } from '@evalon/contracts/values';
 import { LoanStateChip } from '../../shared/loan-state-chip';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LoanApi } from './loan-api';
@@ -66,15 +52,12 @@ export function equipmentSummary(loan: Loan): string {
   selector: 'ev-loan-list',
   imports: [
     EmptyState,
+    ListPageParts,
     LoanStateChip,
     MatButtonModule,
     MatCardModule,
     MatChipsModule,
-    MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
-    MatPaginatorModule,
-    MatProgressBarModule,
     MatSortModule,
     MatTableModule,
     PageHeader,
@@ -88,7 +71,6 @@ export class LoanList {
   private readonly api = inject(LoanApi);
   private readonly session = inject(SessionStore);
   private readonly locale = inject(LOCALE_ID);
-  private readonly destroyRef = inject(DestroyRef);
   protected readonly draft = inject(LoanDraft);
 
   protected readonly columns = [
@@ -104,16 +86,62 @@ export class LoanList {
   /** Whether the person may ask for loans (clinicians only read). */
   protected readonly canRequest = computed(() => this.session.hasAnyRole(['buyer']));
 
-  private readonly loans = signal<Loan[]>([]);
-  protected readonly loading = signal(false);
-  protected readonly loaded = signal(false);
-  protected readonly loadError = signal<string | null>(null);
-  protected readonly filterText = signal('');
-  protected readonly chosenStates = signal<readonly LoanState[]>([]);
+  /** Page, size, order, search words and chosen states, in the URL. */
+  protected readonly query = listQuery({
+    sortFields: loanSortFields,
+    defaultSort: { field: 'requested', dir: 'desc' },
+    filters: ['state'],
+  });
+  /** States chosen in the chips (none = every state). */
+  protected readonly chosenStates = computed(() => {
+    const text = this.query.request().filters.state;
+    return (text ? text.split(',') : []) as LoanState[];
+  });
 
-  protected readonly rows = computed<LoanRow[]>(() => {
+  /** The page of loans the URL asks for. */
+  protected readonly loans = listSource({
+    params: () => this.query.request(),
+    load: (request) => this.api.page(request),
+    rows: (answer: LoanPage) => answer.items.map((loan) => this.toRow(loan)),
+    key: (row) => row.loan.id,
+  });
+
+  /** The list as its template's parts see it. */
+  protected readonly list: ListPage = {
+    query: this.query,
+    source: this.loans,
+    words: listWords('loan', 'loans', {
+      noMatch: () => 'No loans match these filters.',
+      clear: 'Show all loans',
+    }),
+  };
+
+  /** States with loans matching the search, with how many, in lifecycle order. */
+  protected readonly stateOptions = computed(() => {
+    const counts = this.loans.answer()?.stateCounts ?? [];
+    return loanStates
+      .map((state) => ({ state, count: counts.find((c) => c.state === state)?.count ?? 0 }))
+      .filter((option) => option.count > 0)
+      .map((option) => ({ ...option, label: loanStateLabels[option.state] }));
+  });
+
+  protected readonly summary = computed(() => {
+    const answer = this.loans.answer();
+    if (!answer) return '';
+    const shown = answer.total;
+    const total = answer.stateCounts.reduce((sum, c) => sum + c.count, 0);
+    const noun = total === 1 ? 'loan' : 'loans';
+    return shown === total ? `${total} ${noun}` : `${shown} of ${total} ${noun}`;
+  });
+
+  protected setStates(change: MatChipListboxChange): void {
+    const states = (change.value as LoanState[] | null) ?? [];
+    this.query.setFilter('state', states.join(','));
+  }
+
+  private toRow(loan: Loan): LoanRow {
     const zone = this.session.timeZone();
-    return this.loans().map((loan) => ({
+    return {
       loan,
       equipment: equipmentSummary(loan),
       firstModel: loan.units[0]?.modelName ?? '—',
@@ -126,117 +154,6 @@ export class LoanList {
         DateTime.DATE_MED,
       ),
       requestedText: formatInstant(loan.createdAt, zone, this.locale),
-    }));
-  });
-
-  /** States present in the list, with how many loans are in each, in lifecycle order. */
-  protected readonly stateOptions = computed(() => {
-    const counts = new Map<LoanState, number>();
-    for (const loan of this.loans()) counts.set(loan.state, (counts.get(loan.state) ?? 0) + 1);
-    return loanStates
-      .filter((s) => counts.has(s))
-      .map((state) => ({ state, label: loanStateLabels[state], count: counts.get(state)! }));
-  });
-
-  protected readonly visibleRows = computed(() => {
-    const text = this.filterText().trim().toLowerCase();
-    const states = this.chosenStates();
-    return this.rows().filter((row) => {
-      if (states.length && !states.includes(row.loan.state)) return false;
-      if (!text) return true;
-      const haystack = [
-        row.loan.reference,
-        row.equipmentFull,
-        row.loan.siteName,
-        row.stateLabel,
-        row.loan.lenderName,
-        row.windowText,
-      ]
-        .join(' ')
-        .toLowerCase();
-      return haystack.includes(text);
-    });
-  });
-
-  protected readonly summary = computed(() => {
-    const shown = this.visibleRows().length;
-    const total = this.rows().length;
-    const noun = total === 1 ? 'loan' : 'loans';
-    return shown === total ? `${total} ${noun}` : `${shown} of ${total} ${noun}`;
-  });
-
-  protected readonly dataSource = new MatTableDataSource<LoanRow>([]);
-  private readonly sort = viewChild(MatSort);
-  private readonly paginator = viewChild(MatPaginator);
-
-  constructor() {
-    this.dataSource.sortingDataAccessor = (row, column) => {
-      switch (column) {
-        case 'reference':
-          return row.loan.reference;
-        case 'equipment':
-          return row.equipment.toLowerCase();
-        case 'campus':
-          return row.loan.siteName.toLowerCase();
-        case 'window':
-          return row.loan.useFrom;
-        case 'state':
-          return loanStates.indexOf(row.loan.state);
-        case 'deposit':
-          return row.loan.deposit.amount;
-        case 'requested':
-          return row.loan.createdAt;
-        default:
-          return '';
-      }
     };
-    effect(() => {
-      this.dataSource.data = this.visibleRows();
-    });
-    effect(() => {
-      const sort = this.sort();
-      const paginator = this.paginator();
-      if (sort) this.dataSource.sort = sort;
-      if (paginator) this.dataSource.paginator = paginator;
-    });
-    this.load();
-  }
-
-  protected load(): void {
-    this.loading.set(true);
-    this.loadError.set(null);
-    this.api
-      .list()
-      .pipe(takeUntilDestroyed(this.destroyRef))
-      .subscribe({
-        next: (loans) => {
-          this.loans.set(loans);
-          this.loading.set(false);
-          this.loaded.set(true);
-        },
-        error: (error: unknown) => {
-          this.loadError.set(messageOf(error));
-          this.loading.set(false);
-        },
-      });
-  }
-
-  protected reload(): void {
-    this.load();
-  }
-
-  protected setFilter(event: Event): void {
-    this.filterText.set((event.target as HTMLInputElement).value);
-    this.paginator()?.firstPage();
-  }
-
-  protected setStates(change: MatChipListboxChange): void {
-    this.chosenStates.set((change.value as LoanState[] | null) ?? []);
-    this.paginator()?.firstPage();
-  }
-
-  protected clearFilters(): void {
-    this.filterText.set('');
-    this.chosenStates.set([]);
   }
 }

@@ -25,7 +25,7 @@ import { Cautions } from '../../shared/cautions/cautions';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { DayPipe, MoneyPipe, WindowPipe } from '../../shared/formats';
 import { formatInstant, todayIn } from '../../shared/iso-date';
-import { loanStateLabels, stoppedLoanStates } from '../../shared/loan-rules';
+import { loanStateLabels, stoppedLoanStates } from '@evalon/contracts/values';
 import { LoanStateChip } from '../../shared/loan-state-chip';
 import {
   MilestoneTimeline,

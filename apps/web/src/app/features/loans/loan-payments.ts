@@ -12,14 +12,15 @@ import { MatCardModule } from '@angular/material/card';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import type { LoanPayments, Money, Payment, Refund } from '@evalon/contracts';
 import { SessionStore } from '../../core/session-store';
+import { depositStrategyLabels } from '@evalon/contracts/values';
 import {
-  depositStrategyLabels,
   paymentKindLabels,
   paymentStatusLooks,
   refundReasonLabels,
 } from '../../shared/deposit-rules';
 import { MoneyPipe } from '../../shared/formats';
 import { formatInstant } from '../../shared/iso-date';
+import { PillTone, StatusPill } from '../../shared/status-pill/status-pill';
 
 /** A payment ready to show. */
 interface PaymentRow {
@@ -44,13 +45,20 @@ interface RefundRow {
  */
 @Component({
   selector: 'ev-loan-payments',
-  imports: [MatButtonModule, MatCardModule, MatProgressBarModule, MoneyPipe],
+  imports: [MatButtonModule, MatCardModule, MatProgressBarModule, MoneyPipe, StatusPill],
   templateUrl: './loan-payments.html',
   styleUrl: './loan-payments.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class LoanPaymentsCard {
   private readonly session = inject(SessionStore);
+  /** Pill colour of each payment look. */
+  protected readonly pillTones: Readonly<Record<string, PillTone>> = {
+    waiting: 'tertiary',
+    good: 'primary',
+    neutral: 'neutral',
+    bad: 'error',
+  };
   private readonly locale = inject(LOCALE_ID);
 
   /** The loan's deposit (shown even when the payments could not be loaded). */

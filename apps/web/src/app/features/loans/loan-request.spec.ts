@@ -248,9 +248,7 @@ describe('LoanRequest', () => {
     expect(TestBed.inject(Router).url).toBe('/loans/77');
     expect(TestBed.inject(LoanDraft).count()).toBe(0);
     const snack = await root.getHarness(MatSnackBarHarness);
-    expect(await snack.getMessage()).toBe(
-      'Request EV-2027-000077 sent to Dralvik Medical Loans.',
-    );
+    expect(await snack.getMessage()).toBe('Request EV-2027-000077 sent to Dralvik Medical Loans.');
   });
 
   describe('when the lender’s calendar changed meanwhile (409)', () => {

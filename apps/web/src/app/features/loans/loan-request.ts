@@ -54,7 +54,7 @@ import {
   windowLength,
 } from '../../shared/iso-date';
 import { DraftUnit, LoanDraft, addOutcomeMessage, draftUnitOf } from '../../shared/loan-draft';
-import { loanNoteMaxLength, modelCategoryLabels } from '../../shared/loan-rules';
+import { loanNoteMaxLength, modelCategoryLabels } from '@evalon/contracts/values';
 import {
   MilestoneTimeline,
   TimelineSite,

@@ -10,7 +10,7 @@ import type { InviteRequest, Role } from '@evalon/contracts';
 import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { roleLabels } from '../../core/roles';
-import { emailMaxLength, nameMaxLength } from '../../core/contract-rules';
+import { emailMaxLength, nameMaxLength } from '@evalon/contracts/values';
 import { applyServerErrors } from '../../shared/forms';
 import { MembersApi } from './members-api';
 

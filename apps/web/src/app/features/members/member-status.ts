@@ -1,7 +1,7 @@
 import type { Member } from '@evalon/contracts';
+import { memberStatusLabels, type MemberStatus } from '@evalon/contracts/values';
 
-/** Where a member stands: can sign in, has not accepted yet, or was deactivated. */
-export type MemberStatus = 'active' | 'pending' | 'deactivated';
+export type { MemberStatus } from '@evalon/contracts/values';
 
 /** The status of a member; deactivation wins over a pending invitation. */
 export function statusOf(member: Member): MemberStatus {
@@ -9,12 +9,8 @@ export function statusOf(member: Member): MemberStatus {
   return member.pending ? 'pending' : 'active';
 }
 
-/** Words for each status. */
-export const statusLabels: Readonly<Record<MemberStatus, string>> = {
-  active: 'Active',
-  pending: 'Invitation sent',
-  deactivated: 'Deactivated',
-};
+/** Words for each status (the server searches the same words). */
+export const statusLabels = memberStatusLabels;
 
 /** Icons beside each status. */
 export const statusIcons: Readonly<Record<MemberStatus, string>> = {

@@ -1,18 +1,22 @@
 import { HttpClient } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import type { InviteRequest, Member, Role } from '@evalon/contracts';
-import { Observable, map } from 'rxjs';
+import type { InviteRequest, MemberPage, Role } from '@evalon/contracts';
+import { Observable } from 'rxjs';
+import { listParams, type ListRequest } from '../../shared/list-page';
 
 /** Talks to `/api/organisations/:orgId/members` and invitations. */
 @Injectable({ providedIn: 'root' })
 export class MembersApi {
   private readonly http = inject(HttpClient);
 
-  /** Everyone in the organisation, including pending invitations and deactivated people. */
-  list(organisationId: number): Observable<Member[]> {
-    return this.http
-      .get<{ items: Member[] }>(`/api/organisations/${organisationId}/members`)
-      .pipe(map((r) => r.items));
+  /**
+   * One page of the organisation's people, including pending invitations and deactivated
+   * people; `q` matches name, e-mail, role or status words.
+   */
+  page(organisationId: number, request: ListRequest<string>): Observable<MemberPage> {
+    return this.http.get<MemberPage>(`/api/organisations/${organisationId}/members`, {
+      params: listParams(request),
+    });
   }
 
   /** Invites someone by e-mail with a role. */

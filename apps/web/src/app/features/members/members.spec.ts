@@ -9,11 +9,14 @@ import { MatDialogHarness } from '@angular/material/dialog/testing';
 import { MatFormFieldHarness } from '@angular/material/form-field/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { MatMenuHarness } from '@angular/material/menu/testing';
+import { MatPaginatorHarness } from '@angular/material/paginator/testing';
 import { MatProgressBarHarness } from '@angular/material/progress-bar/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
+import { MatSortHeaderHarness } from '@angular/material/sort/testing';
 import { MatTableHarness } from '@angular/material/table/testing';
-import { provideRouter } from '@angular/router';
+import { Router, provideRouter } from '@angular/router';
 import type { Member } from '@evalon/contracts';
+import type { HttpRequest } from '@angular/common/http';
 import { errorInterceptor } from '../../core/interceptors';
 import { SessionStore } from '../../core/session-store';
 import { membership, organisations, person } from '../../testing/people';
@@ -21,6 +24,8 @@ import { Members } from './members';
 
 const orgId = organisations.velmora.id;
 const listUrl = `/api/organisations/${orgId}/members`;
+/** Whether a request asks for a page of the member list. */
+const isList = (r: HttpRequest<unknown>) => r.method === 'GET' && r.url === listUrl;
 
 /** Invented people of Velmora Health. */
 const team: Member[] = [
@@ -72,10 +77,27 @@ describe('Members', () => {
   let root: HarnessLoader;
   let http: HttpTestingController;
 
+  /**
+   * Lets answers and timers land and the view update. Not `whenStable()`: a list request on its
+   * way keeps the app unstable until the test answers it.
+   */
   async function settle(): Promise<void> {
     await new Promise((resolve) => setTimeout(resolve));
-    await fixture.whenStable();
+    fixture.detectChanges();
+    await new Promise((resolve) => setTimeout(resolve));
   }
+
+  /** Clicks through the DOM (harnesses would wait for the request the click sends). */
+  async function click(element: HTMLElement | null): Promise<void> {
+    expect(element).not.toBeNull();
+    element!.click();
+    await settle();
+  }
+
+  const buttonWith = (text: string): HTMLElement | null =>
+    [...(fixture.nativeElement as HTMLElement).querySelectorAll('button')].find((b) =>
+      b.textContent?.includes(text),
+    ) ?? null;
 
   beforeEach(async () => {
     TestBed.configureTestingModule({
@@ -88,28 +110,51 @@ describe('Members', () => {
     });
     http = TestBed.inject(HttpTestingController);
     TestBed.inject(SessionStore).setUser(person([membership('velmora', 'buyer')]));
+  });
+
+  /** Opens the page at `url` (its query string is the list's state). */
+  async function open(url = '/'): Promise<void> {
+    await TestBed.inject(Router).navigateByUrl(url);
     fixture = TestBed.createComponent(Members);
     fixture.componentRef.setInput('orgId', String(orgId));
     loader = TestbedHarnessEnvironment.loader(fixture);
     root = TestbedHarnessEnvironment.documentRootLoader(fixture);
-    await fixture.whenStable();
-  });
-
-  afterEach(() => http.verify());
-
-  async function loadTeam(members: Member[] = team): Promise<void> {
-    http.expectOne(listUrl).flush({ items: members });
+    // Not `whenStable()`: a list request on its way keeps the app unstable until it is answered.
     await settle();
   }
 
+  afterEach(() => http.verify());
+
+  /** Answers the list request with `members` as the page (the server sorted them already). */
+  async function loadTeam(members: Member[] = team, total = members.length): Promise<void> {
+    http.expectOne(isList).flush({
+      items: members,
+      total,
+      page: 0,
+      size: 10,
+      pending: members.filter((m) => m.active && m.pending).length,
+      deactivated: members.filter((m) => !m.active).length,
+    });
+    await settle();
+  }
+
+  /** The name order the server answers with by default. */
+  const byName = [...team].sort((a, b) => a.name.localeCompare(b.name));
+
   it('shows a loading bar until the list arrives', async () => {
-    expect(await loader.getAllHarnesses(MatProgressBarHarness)).toHaveLength(1);
+    await open();
+    // The DOM, not a harness: harnesses wait for stability, which the pending request holds off.
+    expect(fixture.nativeElement.querySelectorAll('mat-progress-bar')).toHaveLength(1);
     await loadTeam();
     expect(await loader.getAllHarnesses(MatProgressBarHarness)).toHaveLength(0);
   });
 
-  it('lists members sorted by name with role and status', async () => {
-    await loadTeam();
+  it('asks for the first page by name and lists the members with role and status', async () => {
+    await open();
+    const request = http.expectOne(isList);
+    expect(request.request.params.toString()).toBe('page=0&size=10&sort=name,asc');
+    request.flush({ items: byName, total: 4, page: 0, size: 10, pending: 1, deactivated: 1 });
+    await settle();
     const table = await loader.getHarness(MatTableHarness);
     const rows = await table.getRows();
     const cells = await Promise.all(rows.map((row) => row.getCellTextByColumnName()));
@@ -138,21 +183,73 @@ describe('Members', () => {
     );
   });
 
-  it('filters rows by what was typed and says when nothing matches', async () => {
-    await loadTeam();
+  it('asks the server for what was typed, from the first page, and says when nothing matches', async () => {
+    await open('/?page=2');
+    await loadTeam(byName, 24);
     const filter = await loader.getHarness(MatInputHarness.with({ selector: '[type="search"]' }));
     await filter.setValue('clinician');
+    await new Promise((resolve) => setTimeout(resolve, 350)); // the search waits for a pause
+    const search = http.expectOne(isList);
+    expect(search.request.params.get('q')).toBe('clinician');
+    expect(search.request.params.get('page')).toBe('0');
+    expect(TestBed.inject(Router).url).toBe('/?q=clinician');
+    search.flush({
+      items: byName.slice(1, 3),
+      total: 2,
+      page: 0,
+      size: 10,
+      pending: 1,
+      deactivated: 0,
+    });
+    await settle();
     const table = await loader.getHarness(MatTableHarness);
     expect(await table.getRows()).toHaveLength(2);
 
     await filter.setValue('nobody by that name');
+    await new Promise((resolve) => setTimeout(resolve, 350));
+    await loadTeam([]);
     expect(await table.getRows()).toHaveLength(0);
-    expect(fixture.nativeElement.querySelector('.no-rows').textContent).toContain(
+    expect(fixture.nativeElement.querySelector('[ev-list-no-rows]').textContent).toContain(
       'No one matches “nobody by that name”.',
     );
   });
 
+  it('keeps page, size and order in the URL, so a reload shows the same rows', async () => {
+    await open('/?page=1&size=25&sort=role,desc');
+    const request = http.expectOne(isList);
+    expect(request.request.params.toString()).toBe('page=1&size=25&sort=role,desc');
+    request.flush({ items: byName, total: 29, page: 1, size: 25, pending: 1, deactivated: 1 });
+    await settle();
+    const paginator = await loader.getHarness(MatPaginatorHarness);
+    expect(await paginator.getRangeLabel()).toBe('26 – 29 of 29');
+    expect(await paginator.getPageSize()).toBe(25);
+
+    await click(fixture.nativeElement.querySelector('button[aria-label="Previous page"]'));
+    expect(TestBed.inject(Router).url).toBe('/?size=25&sort=role,desc');
+    http
+      .expectOne((r) => isList(r) && r.params.get('page') === '0')
+      .flush({
+        items: byName,
+        total: 29,
+        page: 0,
+        size: 25,
+        pending: 1,
+        deactivated: 1,
+      });
+    await settle();
+
+    expect(
+      await (
+        await loader.getHarness(MatSortHeaderHarness.with({ label: 'Role' }))
+      ).getSortDirection(),
+    ).toBe('desc');
+    await click(fixture.nativeElement.querySelector('th.mat-column-name'));
+    expect(TestBed.inject(Router).url).toBe('/?size=25');
+    await loadTeam();
+  });
+
   it('shows an empty state with an invite button when nobody is listed', async () => {
+    await open();
     await loadTeam([]);
     expect(fixture.nativeElement.textContent).toContain('No one here yet');
     expect(
@@ -161,16 +258,18 @@ describe('Members', () => {
   });
 
   it('shows the error and tries again', async () => {
-    http.expectOne(listUrl).flush('', { status: 503, statusText: 'Unavailable' });
+    await open();
+    http.expectOne(isList).flush('', { status: 503, statusText: 'Unavailable' });
     await settle();
     expect(fixture.nativeElement.textContent).toContain('Members couldn’t be loaded');
-    await (await loader.getHarness(MatButtonHarness.with({ text: /Try again/ }))).click();
+    await click(buttonWith('Try again'));
     await loadTeam();
     expect(await (await loader.getHarness(MatTableHarness)).getRows()).toHaveLength(4);
   });
 
   it('changes a role from the row’s select', async () => {
-    await loadTeam();
+    await open();
+    await loadTeam(byName);
     const select = await loader.getHarness(
       MatSelectHarness.with({ selector: '[aria-label="Role of Ravi Okafor"]' }),
     );
@@ -189,7 +288,8 @@ describe('Members', () => {
   });
 
   it('deactivates only after confirmation', async () => {
-    await loadTeam();
+    await open();
+    await loadTeam(byName);
     const menus = await loader.getAllHarnesses(MatMenuHarness);
     // Rows are sorted by name and "you" has no menu: Lena, Ravi, Tom.
     await menus[1].clickItem({ text: /Deactivate/ });
@@ -205,7 +305,8 @@ describe('Members', () => {
   });
 
   it('sends a pending person a fresh invitation link from the row menu', async () => {
-    await loadTeam();
+    await open();
+    await loadTeam(byName);
     const menus = await loader.getAllHarnesses(MatMenuHarness);
     // Rows are sorted by name and "you" has no menu: Lena (pending), Ravi, Tom.
     await menus[0].open();
@@ -220,11 +321,12 @@ describe('Members', () => {
     expect(request.request.method).toBe('POST');
     request.flush({ member: team[2] });
     await settle();
-    http.expectNone(listUrl);
+    expect(http.match(isList)).toHaveLength(0);
   });
 
   it('offers no new invitation link to people who have accepted', async () => {
-    await loadTeam();
+    await open();
+    await loadTeam(byName);
     const menus = await loader.getAllHarnesses(MatMenuHarness);
     await menus[1].open();
     const texts = await menus[1]
@@ -234,7 +336,8 @@ describe('Members', () => {
   });
 
   it('sends nothing when the confirmation is cancelled', async () => {
-    await loadTeam();
+    await open();
+    await loadTeam(byName);
     const menus = await loader.getAllHarnesses(MatMenuHarness);
     await menus[2].clickItem({ text: /Reactivate/ });
     const dialog = await root.getHarness(MatDialogHarness);
@@ -245,7 +348,8 @@ describe('Members', () => {
 
   describe('invite dialog', () => {
     async function openInvite(): Promise<MatDialogHarness> {
-      await loadTeam();
+      await open();
+      await loadTeam(byName);
       await (await loader.getHarness(MatButtonHarness.with({ text: /Invite someone/ }))).click();
       return root.getHarness(MatDialogHarness);
     }
@@ -299,8 +403,7 @@ describe('Members', () => {
       });
       request.flush({}, { status: 201, statusText: 'Created' });
       await settle();
-      http.expectOne(listUrl).flush({ items: team });
-      await settle();
+      await loadTeam(byName);
       expect(await root.getAllHarnesses(MatDialogHarness)).toHaveLength(0);
     });
 

@@ -1,37 +1,25 @@
-import {
-  ChangeDetectionStrategy,
-  Component,
-  computed,
-  effect,
-  inject,
-  input,
-  signal,
-  untracked,
-  viewChild,
-} from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatChipsModule } from '@angular/material/chips';
 import { MatDialog } from '@angular/material/dialog';
-import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
-import { MatInputModule } from '@angular/material/input';
 import { MatMenuModule } from '@angular/material/menu';
-import { MatPaginator, MatPaginatorModule } from '@angular/material/paginator';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
-import { MatSort, MatSortModule } from '@angular/material/sort';
-import { MatTableDataSource, MatTableModule } from '@angular/material/table';
-import type { Member, Role } from '@evalon/contracts';
+import { MatFormFieldModule } from '@angular/material/form-field';
+import { MatSortModule } from '@angular/material/sort';
+import { MatTableModule } from '@angular/material/table';
+import type { Member, MemberPage, Role } from '@evalon/contracts';
+import { memberSortFields } from '@evalon/contracts/values';
 import { DateTime } from 'luxon';
 import { firstValueFrom } from 'rxjs';
-import { messageOf } from '../../core/api-error';
-import { allRoles, invitableRoles } from '../../core/contract-rules';
+import { roles as allRoles, invitableRoles } from '@evalon/contracts/values';
 import { Notifier } from '../../core/notifier';
 import { roleLabels } from '../../core/roles';
 import { SessionStore } from '../../core/session-store';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
+import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { InviteDialog, InviteDialogData } from './invite-dialog';
 import { MembersApi } from './members-api';
@@ -56,15 +44,13 @@ interface MemberRow {
   selector: 'ev-members',
   imports: [
     EmptyState,
+    ListPageParts,
     MatButtonModule,
     MatCardModule,
     MatChipsModule,
     MatFormFieldModule,
     MatIconModule,
-    MatInputModule,
     MatMenuModule,
-    MatPaginatorModule,
-    MatProgressBarModule,
     MatSelectModule,
     MatSortModule,
     MatTableModule,
@@ -106,20 +92,50 @@ export class Members {
   protected readonly roleLabels = roleLabels;
   protected readonly columns = ['name', 'role', 'status', 'lastSignIn', 'actions'];
 
-  private readonly members = signal<Member[]>([]);
-  protected readonly loading = signal(false);
-  /** Whether the list has been loaded at least once for this organisation. */
-  protected readonly loaded = signal(false);
-  protected readonly loadError = signal<string | null>(null);
+  /** Page, size, order and search words, in the URL. */
+  protected readonly query = listQuery({
+    sortFields: memberSortFields,
+    defaultSort: { field: 'name', dir: 'asc' },
+  });
   /** Membership being changed right now (its controls are disabled meanwhile). */
   protected readonly busyMembership = signal<number | null>(null);
-  protected readonly filterText = signal('');
 
-  protected readonly rows = computed<MemberRow[]>(() => {
+  /** The page of members the URL asks for, with what each row shows. */
+  protected readonly members = listSource({
+    params: () => ({ organisationId: this.organisationId(), request: this.query.request() }),
+    load: ({ organisationId, request }) => this.api.page(organisationId, request),
+    rows: (answer: MemberPage) => this.toRows(answer.items),
+    key: (row) => row.member.membershipId,
+  });
+
+  /** The list as its template's parts see it. */
+  protected readonly list: ListPage = {
+    query: this.query,
+    source: this.members,
+    words: listWords('person', 'members', {
+      noMatch: (q) => `No one matches “${q}”.`,
+      clear: null,
+    }),
+  };
+
+  /** The table's accessible name. */
+  protected readonly tableLabel = computed(() => `Members of ${this.organisationName()}`);
+
+  protected readonly summary = computed(() => {
+    const answer = this.members.answer();
+    if (!answer) return '';
+    const { total, pending, deactivated } = answer;
+    const parts = [`${total} ${total === 1 ? 'person' : 'people'}`];
+    if (pending) parts.push(`${pending} invitation${pending === 1 ? '' : 's'} waiting`);
+    if (deactivated) parts.push(`${deactivated} deactivated`);
+    return parts.join(' · ');
+  });
+
+  private toRows(members: readonly Member[]): MemberRow[] {
     const me = this.session.user()?.id;
     const zone = this.session.timeZone();
     const assignable = this.assignableRoles();
-    return this.members().map((member) => {
+    return members.map((member) => {
       const at = member.lastSignInAt ? DateTime.fromISO(member.lastSignInAt, { zone }) : null;
       const status = statusOf(member);
       return {
@@ -140,64 +156,14 @@ export class Members {
             : null,
       };
     });
-  });
-
-  protected readonly summary = computed(() => {
-    const rows = this.rows();
-    const pending = rows.filter((r) => r.status === 'pending').length;
-    const deactivated = rows.filter((r) => r.status === 'deactivated').length;
-    const parts = [`${rows.length} ${rows.length === 1 ? 'person' : 'people'}`];
-    if (pending) parts.push(`${pending} invitation${pending === 1 ? '' : 's'} waiting`);
-    if (deactivated) parts.push(`${deactivated} deactivated`);
-    return parts.join(' · ');
-  });
-
-  protected readonly dataSource = new MatTableDataSource<MemberRow>([]);
-  private readonly sort = viewChild(MatSort);
-  private readonly paginator = viewChild(MatPaginator);
-
-  constructor() {
-    this.dataSource.filterPredicate = (row, filter) =>
-      [row.member.name, row.member.email, row.roleLabel, row.statusLabel]
-        .join(' ')
-        .toLowerCase()
-        .includes(filter);
-    this.dataSource.sortingDataAccessor = (row, column) => {
-      switch (column) {
-        case 'role':
-          return row.roleLabel;
-        case 'status':
-          return row.statusLabel;
-        case 'lastSignIn':
-          return row.member.lastSignInAt ? Date.parse(row.member.lastSignInAt) : 0;
-        default:
-          return row.member.name.toLocaleLowerCase();
-      }
-    };
-
-    effect(() => {
-      const id = this.organisationId();
-      untracked(() => void this.load(id));
-    });
-    effect(() => {
-      this.dataSource.data = this.rows();
-    });
-    effect(() => {
-      this.dataSource.filter = this.filterText().trim().toLowerCase();
-    });
-    effect(() => {
-      this.dataSource.sort = this.sort() ?? null;
-      this.dataSource.paginator = this.paginator() ?? null;
-    });
   }
 
-  protected reload(): void {
-    void this.load(this.organisationId());
-  }
-
-  protected setFilter(event: Event): void {
-    this.filterText.set((event.target as HTMLInputElement).value);
-    this.paginator()?.firstPage();
+  /** Changes one member on hand after the server confirmed it. */
+  private patchMember(membershipId: number, change: Partial<Member>): void {
+    this.members.update((answer) => ({
+      ...answer,
+      items: answer.items.map((m) => (m.membershipId === membershipId ? { ...m, ...change } : m)),
+    }));
   }
 
   protected openInvite(): void {
@@ -217,7 +183,7 @@ export class Members {
       .subscribe((email) => {
         if (!email) return;
         this.notifier.success(`Invitation sent to ${email}.`);
-        this.reload();
+        this.members.reload();
       });
   }
 
@@ -229,14 +195,12 @@ export class Members {
         this.api.changeRole(this.organisationId(), row.member.membershipId, role),
         { defaultValue: undefined },
       );
-      this.members.update((list) =>
-        list.map((m) => (m.membershipId === row.member.membershipId ? { ...m, role } : m)),
-      );
+      this.patchMember(row.member.membershipId, { role });
       this.notifier.success(`${row.member.name} is now ${article(roleLabels[role])}.`);
     } catch (error) {
       this.notifier.error(error);
       // Re-read the list so the select shows the role the server kept.
-      void this.load(this.organisationId());
+      this.members.reload();
     } finally {
       this.busyMembership.set(null);
     }
@@ -269,9 +233,7 @@ export class Members {
         ? this.api.reactivate(this.organisationId(), membershipId)
         : this.api.deactivate(this.organisationId(), membershipId);
       await firstValueFrom(request, { defaultValue: undefined });
-      this.members.update((list) =>
-        list.map((m) => (m.membershipId === membershipId ? { ...m, active } : m)),
-      );
+      this.patchMember(membershipId, { active });
       this.notifier.success(active ? `${name} can sign in again.` : `${name} is deactivated.`);
     } catch (error) {
       this.notifier.error(error);
@@ -292,25 +254,9 @@ export class Members {
     } catch (error) {
       this.notifier.error(error);
       // The person may have accepted meanwhile; show where they stand now.
-      void this.load(this.organisationId());
+      this.members.reload();
     } finally {
       this.busyMembership.set(null);
-    }
-  }
-
-  private async load(organisationId: number): Promise<void> {
-    this.loading.set(true);
-    this.loadError.set(null);
-    try {
-      const members = await firstValueFrom(this.api.list(organisationId));
-      if (organisationId !== this.organisationId()) return; // An older answer; a newer load runs.
-      this.members.set(members);
-      this.loaded.set(true);
-    } catch (error) {
-      if (organisationId !== this.organisationId()) return;
-      this.loadError.set(messageOf(error));
-    } finally {
-      if (organisationId === this.organisationId()) this.loading.set(false);
     }
   }
 }

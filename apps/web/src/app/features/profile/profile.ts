@@ -17,7 +17,7 @@ import { MatSelectModule } from '@angular/material/select';
 import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { AuthApi } from '../../core/auth-api';
-import { nameMaxLength } from '../../core/contract-rules';
+import { nameMaxLength } from '@evalon/contracts/values';
 import { Notifier } from '../../core/notifier';
 import { roleLabels } from '../../core/roles';
 import { SessionStore } from '../../core/session-store';

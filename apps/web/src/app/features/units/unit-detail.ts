@@ -24,13 +24,19 @@ import { Cautions } from '../../shared/cautions/cautions';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { CalendarDay, HoldCalendar, monthOf } from '../../shared/hold-calendar/hold-calendar';
+import { describeHold } from '../../shared/holds';
 import { describeZone, formatWindow, todayIn, windowLength } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
-import { modelCategoryLabels, unitStatusIcons, unitStatusLabels } from '../catalog/catalog-rules';
+import { StatusPill } from '../../shared/status-pill/status-pill';
+import {
+  modelCategoryLabels,
+  unitStatusIcons,
+  unitStatusLabels,
+  unitStatusTones,
+} from '../catalog/catalog-rules';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { MaintenanceDialog, MaintenanceDialogData } from './maintenance-dialog';
 import { UnitDialog, UnitDialogData } from './unit-dialog';
-import { describeHold } from './unit-list';
 import { UnitsApi } from './units-api';
 
 /** A hold with what the list shows already worked out. */
@@ -63,6 +69,7 @@ const earlierShown = 10;
     MatTooltipModule,
     PageHeader,
     RouterLink,
+    StatusPill,
   ],
   templateUrl: './unit-detail.html',
   styleUrl: './unit-detail.scss',
@@ -78,6 +85,7 @@ export class UnitDetail {
   /** `:unitId` from the route. */
   readonly unitId = input.required<string>();
 
+  protected readonly statusTones = unitStatusTones;
   protected readonly id = computed(() => Number(this.unitId()));
   /** Whether the person may change the unit and its maintenance (fleet managers). */
   protected readonly canEdit = computed(() => this.session.hasAnyRole(['fleet_manager']));

@@ -1,7 +1,11 @@
 import { HarnessLoader } from '@angular/cdk/testing';
 import { TestbedHarnessEnvironment } from '@angular/cdk/testing/testbed';
-import { provideHttpClient, withInterceptors } from '@angular/common/http';
-import { HttpTestingController, provideHttpClientTesting } from '@angular/common/http/testing';
+import { HttpRequest, provideHttpClient, withInterceptors } from '@angular/common/http';
+import {
+  HttpTestingController,
+  TestRequest,
+  provideHttpClientTesting,
+} from '@angular/common/http/testing';
 import { ComponentFixture, TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MATERIAL_ANIMATIONS } from '@angular/material/core';
@@ -9,9 +13,8 @@ import { MatDialogHarness } from '@angular/material/dialog/testing';
 import { MatFormFieldHarness } from '@angular/material/form-field/testing';
 import { MatInputHarness } from '@angular/material/input/testing';
 import { MatSelectHarness } from '@angular/material/select/testing';
-import { MatSortHarness } from '@angular/material/sort/testing';
 import { MatTableHarness } from '@angular/material/table/testing';
-import { provideRouter } from '@angular/router';
+import { Router, provideRouter } from '@angular/router';
 import type { Role, Unit } from '@evalon/contracts';
 import { errorInterceptor } from '../../core/interceptors';
 import { SessionStore } from '../../core/session-store';
@@ -54,10 +57,40 @@ describe('UnitList', () => {
   let root: HarnessLoader;
   let http: HttpTestingController;
 
+  /**
+   * Lets answers and timers land and the view update. Not `whenStable()`: a list request on its
+   * way keeps the app unstable until the test answers it.
+   */
   async function settle(): Promise<void> {
     await new Promise((resolve) => setTimeout(resolve));
-    await fixture.whenStable();
+    fixture.detectChanges();
+    await new Promise((resolve) => setTimeout(resolve));
   }
+
+  /** Whether a request asks for a page of units. */
+  const isList = (r: HttpRequest<unknown>) => r.method === 'GET' && r.url === '/api/units';
+
+  /** Answers a list request with `page` as the rows (the server filtered and sorted them). */
+  function answer(request: TestRequest, page: Unit[]): void {
+    const statusCounts = (['active', 'maintenance', 'retired'] as const)
+      .map((status) => ({ status, count: page.filter((u) => u.status === status).length }))
+      .filter((c) => c.count > 0);
+    request.flush({ items: page, total: page.length, page: 0, size: 10, statusCounts });
+  }
+
+  /** Picks an option of the select labelled `label`, through the DOM (a harness click would
+   * wait for the request the choice sends). */
+  async function choose(label: string, option: string): Promise<void> {
+    const field = await loader.getHarness(MatFormFieldHarness.with({ floatingLabelText: label }));
+    await ((await field.getControl(MatSelectHarness)) as MatSelectHarness).open();
+    [...document.querySelectorAll<HTMLElement>('mat-option')]
+      .find((o) => o.textContent?.trim() === option)!
+      .click();
+    await settle();
+  }
+
+  /** The units in serial-number order, as the server answers by default. */
+  const bySerial = [...units].sort((a, b) => a.serialNumber.localeCompare(b.serialNumber));
 
   async function open(role: Role): Promise<void> {
     TestBed.configureTestingModule({
@@ -70,11 +103,16 @@ describe('UnitList', () => {
     });
     http = TestBed.inject(HttpTestingController);
     TestBed.inject(SessionStore).setUser(person([membership('dralvik', role)]));
+    await TestBed.inject(Router).navigateByUrl('/');
     fixture = TestBed.createComponent(UnitList);
     loader = TestbedHarnessEnvironment.loader(fixture);
     root = TestbedHarnessEnvironment.documentRootLoader(fixture);
-    await fixture.whenStable();
-    http.expectOne(`/api/units?lenderId=${lenderId}`).flush({ items: units });
+    await settle();
+    const list = http.expectOne(isList);
+    expect(list.request.params.toString()).toBe(
+      `page=0&size=10&sort=serial,asc&lenderId=${lenderId}`,
+    );
+    answer(list, bySerial);
     http.expectOne(`/api/models?lenderId=${lenderId}`).flush({ items: fleetModels });
     http.expectOne(`/api/lenders/${lenderId}/depots`).flush({ items: fleetDepots });
     await settle();
@@ -86,9 +124,11 @@ describe('UnitList', () => {
     for (let round = 0; round < 3; round++) {
       for (const request of http.match((r) => /\/api\/units\/\d+\/holds$/.test(r.url))) {
         const unitId = Number(/units\/(\d+)\//.exec(request.request.url)![1]);
-        const unit = units.find((u) => u.id === unitId)!;
+        const unit = units.find((u) => u.id === unitId);
         // Each unit is asked from today in its own depot's calendar.
-        expect(request.request.params.get('from')).toBe(todayIn(unit.homeDepotTimeZone));
+        if (unit) {
+          expect(request.request.params.get('from')).toBe(todayIn(unit.homeDepotTimeZone));
+        }
         request.flush({
           items: unitId === 7001 ? [fleetHold({ start: '2099-03-01', end: '2099-03-12' })] : [],
         });
@@ -132,36 +172,59 @@ describe('UnitList', () => {
     );
   });
 
-  it('filters by text, model, depot and status, and sorts by next hold', async () => {
+  it('asks the server for search words, model, depot, status and order, keeping them in the URL', async () => {
     await open('fleet_manager');
     await answerHoldLookups();
-    const table = await loader.getHarness(MatTableHarness);
 
     const search = await loader.getHarness(MatInputHarness.with({ selector: '[type="search"]' }));
     await search.setValue('A5 robotic');
+    await new Promise((resolve) => setTimeout(resolve, 350)); // the search waits for a pause
+    const byWords = http.expectOne(isList);
+    expect(byWords.request.params.get('q')).toBe('A5 robotic');
+    answer(byWords, [units[2]!]);
+    await answerHoldLookups();
     expect((await cells()).map((r) => r['serial'])).toEqual([expect.stringContaining('MA-0001')]);
-    await search.setValue('');
 
-    const select = (label: string) =>
-      loader
-        .getHarness(MatFormFieldHarness.with({ floatingLabelText: label }))
-        .then((f) => f.getControl(MatSelectHarness));
-    await (await select('Model'))!.clickOptions({ text: 'Dralvik U8 ureteroscope' });
-    expect(await table.getRows()).toHaveLength(3);
-    await (await select('Base depot'))!.clickOptions({ text: 'Dralvik Central Depot' });
-    expect((await cells()).map((r) => r['serial'])).toEqual([expect.stringContaining('MV-0002')]);
-    await (await select('Status'))!.clickOptions({ text: 'Retired' });
-    expect(await table.getRows()).toHaveLength(0);
-    expect(fixture.nativeElement.querySelector('.no-rows').textContent).toContain(
+    await choose('Model', 'Dralvik U8 ureteroscope');
+    const byModel = http.expectOne(isList);
+    expect(byModel.request.params.get('modelId')).toBe('41');
+    answer(byModel, []);
+    await choose('Base depot', 'Dralvik Central Depot');
+    answer(
+      http.expectOne((r) => isList(r) && r.params.get('depotId') === '502'),
+      [],
+    );
+    await choose('Status', 'Retired');
+    const byStatus = http.expectOne(isList);
+    expect(byStatus.request.params.get('status')).toBe('retired');
+    expect(TestBed.inject(Router).url).toBe(
+      '/?q=A5%20robotic&modelId=41&depotId=502&status=retired',
+    );
+    answer(byStatus, []);
+    await settle();
+    expect(fixture.nativeElement.querySelector('[ev-list-no-rows]').textContent).toContain(
       'No unit matches these filters.',
     );
-    await (await loader.getHarness(MatButtonHarness.with({ text: 'Clear filters' }))).click();
-    expect(await table.getRows()).toHaveLength(4);
 
-    const sort = await loader.getHarness(MatSortHarness);
-    const [nextHeader] = await sort.getSortHeaders({ label: 'Next hold' });
-    await nextHeader!.click();
-    expect((await cells())[0]!['serial']).toContain('MV-0001');
+    const clear = [...fixture.nativeElement.querySelectorAll('button')].find((b: HTMLElement) =>
+      b.textContent?.includes('Clear filters'),
+    ) as HTMLElement;
+    clear.click();
+    await settle();
+    const cleared = http.expectOne(isList);
+    expect(cleared.request.params.toString()).toBe(
+      `page=0&size=10&sort=serial,asc&lenderId=${lenderId}`,
+    );
+    answer(cleared, bySerial);
+    await answerHoldLookups();
+    expect(await (await loader.getHarness(MatTableHarness)).getRows()).toHaveLength(4);
+
+    (fixture.nativeElement.querySelector('th.mat-column-next') as HTMLElement).click();
+    await settle();
+    const byNext = http.expectOne(isList);
+    expect(byNext.request.params.get('sort')).toBe('next,asc');
+    answer(byNext, bySerial);
+    await answerHoldLookups();
   });
 
   it('lets fleet managers add a unit through the dialog', async () => {
@@ -205,25 +268,22 @@ describe('UnitList', () => {
       homeDepotId: 502,
       status: 'active',
     });
-    request.flush(
-      {
-        unit: fleetUnit({
-          id: 7010,
-          modelId: 43,
-          modelName: 'Dralvik L3 laser',
-          category: 'laser',
-          serialNumber: 'ML-0007',
-          udiDi: '09521234543213',
-          homeDepotId: 502,
-          homeDepotName: 'Dralvik Central Depot',
-          homeDepotTimeZone: 'Europe/Berlin',
-        }),
-      },
-      { status: 201, statusText: 'Created' },
-    );
+    const saved = fleetUnit({
+      id: 7010,
+      modelId: 43,
+      modelName: 'Dralvik L3 laser',
+      category: 'laser',
+      serialNumber: 'ML-0007',
+      udiDi: '09521234543213',
+      homeDepotId: 502,
+      homeDepotName: 'Dralvik Central Depot',
+      homeDepotTimeZone: 'Europe/Berlin',
+    });
+    request.flush({ unit: saved }, { status: 201, statusText: 'Created' });
     await settle();
-    http.expectOne((r) => r.url === '/api/units/7010/holds').flush({ items: [] });
-    await settle();
+    // The list is read again, with the new unit in it.
+    answer(http.expectOne(isList), [...bySerial, saved]);
+    await answerHoldLookups();
     expect((await cells()).map((r) => r['serial'])).toEqual(
       expect.arrayContaining([expect.stringContaining('ML-0007')]),
     );

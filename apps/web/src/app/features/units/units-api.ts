@@ -1,17 +1,28 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import type { Hold, MaintenanceHoldInput, Unit, UnitInput, UnitUpdate } from '@evalon/contracts';
+import type {
+  Hold,
+  MaintenanceHoldInput,
+  Unit,
+  UnitInput,
+  UnitPage,
+  UnitUpdate,
+} from '@evalon/contracts';
 import { Observable, map } from 'rxjs';
+import { listParams, type ListRequest } from '../../shared/list-page';
 
 /** Talks to `/api/units`: a lender's units, their holds and maintenance blocks. */
 @Injectable({ providedIn: 'root' })
 export class UnitsApi {
   private readonly http = inject(HttpClient);
 
-  /** Every unit of the lender, retired ones included (the lender's own people see them). */
-  units(lenderId: number): Observable<Unit[]> {
-    const params = new HttpParams().set('lenderId', lenderId);
-    return this.http.get<{ items: Unit[] }>('/api/units', { params }).pipe(map((r) => r.items));
+  /** One page of the lender's units, retired ones included (for the lender's own people). */
+  unitPage(
+    lenderId: number,
+    request: ListRequest<'modelId' | 'depotId' | 'status'>,
+  ): Observable<UnitPage> {
+    const params = listParams(request).set('lenderId', lenderId);
+    return this.http.get<UnitPage>('/api/units', { params });
   }
 
   /** One unit. */
