@@ -2,6 +2,7 @@ import { DateTime } from 'luxon';
 import type { EntityManager } from 'typeorm';
 import type { Config } from '../config';
 import type { Role } from '@evalon/contracts';
+import type { LoanEventNotice, LoanNotificationEvent, NotifyLoanEvent } from '../loans';
 import {
   loanApproved,
   loanCancelled,
@@ -32,31 +33,12 @@ export {
   type LoanNotificationLoader,
 } from './data-access/loan-notification-repository';
 
-/** Loan events that tell people something. */
-export const loanNotificationEvents = [
-  'requested',
-  'approved',
-  'declined',
-  'cancelled',
-  'confirmed',
-  'expired',
-] as const;
-export type LoanNotificationEvent = (typeof loanNotificationEvents)[number];
-
-/** What the loans component says happened. */
-export interface LoanEventNotice {
-  loanId: number;
-  event: LoanNotificationEvent;
-  /** The reason given (decline, cancel). */
-  reason?: string | null;
-  /** Who did it (shown as "cancelled by"). */
-  actorUserId?: number;
-  /**
-   * `approved` only: the deadline to secure the deposit. When neither this nor the loader gives
-   * one, {@link defaultDepositDueBy} estimates it.
-   */
-  depositDueBy?: Date;
-}
+export {
+  loanNotificationEvents,
+  type LoanEventNotice,
+  type LoanNotificationEvent,
+  type NotifyLoanEvent,
+} from '../loans';
 
 /** How long a buyer has to secure the deposit when nothing else says so. */
 export const defaultDepositWindowMs = 72 * 3_600_000;
@@ -81,12 +63,6 @@ export function defaultDepositDueBy(
   const due = latest < window ? latest : window;
   return due < approvedAt ? approvedAt : due;
 }
-
-/**
- * The entry point the loans domain calls with its transaction's manager; the same shape as the
- * loans component's `NotifyLoanEvent` hook, so it plugs in as it is.
- */
-export type NotifyLoanEvent = (manager: EntityManager, notice: LoanEventNotice) => Promise<void>;
 
 /** Settings of {@link createLoanNotifier}. */
 export interface LoanNotifierOptions {
@@ -252,7 +228,6 @@ export function createLoanNotifier(options: LoanNotifierOptions): NotifyLoanEven
       cancelledBy = actor?.name;
     }
     const depositDueBy =
-      notice.depositDueBy ??
       data.depositDueBy ??
       defaultDepositDueBy(data.approvedAt ?? now, loan.milestones.shipBy, data.lenderTimeZone);
 

@@ -28,14 +28,10 @@ import {
   resolveCampus,
   type Campus,
 } from '../../availability/domain/availability';
-import {
-  bumpBookingVersions,
-  insertLoan,
-  insertLoanEvent,
-  insertLoanUnits,
-} from '../data-access/loan-repository';
+import { bumpBookingVersions, insertLoan, insertLoanUnits } from '../data-access/loan-repository';
 import type { LoanDeps } from './deps';
 import { toLoan } from './queries';
+import { applyLoanTransition } from './transitions';
 
 /** A unit that blocks the request, decided under the lock. */
 interface Blocked {
@@ -253,12 +249,17 @@ async function bookInTransaction(
     // Only possible if something wrote holds without the lock: refuse rather than double-book.
     throw AppError.conflict('unit_changed', 'A unit changed meanwhile; search again and retry.');
   }
-  await insertLoanEvent(
+  await applyLoanTransition(
     m,
-    { loanId, actorUserId: auth.user.id, fromState: null, toState: 'requested', reason: null },
-    now,
+    { id: loanId, state: null },
+    'request',
+    { userId: auth.user.id },
+    null,
+    {
+      now,
+      notifyLoanEvent: deps.notifyLoanEvent,
+    },
   );
-  await deps.notifyLoanEvent(m, { loanId, event: 'requested', actorUserId: auth.user.id });
 
   const loan = toLoan(
     auth,
