@@ -6,6 +6,13 @@ export const decimalAsNumber: ValueTransformer = {
   from: (value: string | null) => (value === null || value === undefined ? value : Number(value)),
 };
 
+/** mysql2 hands BIGINT back as a string (TypeORM turns on bigNumberStrings); amounts fit a double. */
+export const bigintAsNumber: ValueTransformer = {
+  to: (value: number | null | undefined) => value,
+  from: (value: string | number | null) =>
+    value === null || value === undefined ? value : Number(value),
+};
+
 /** Auto-increment integer primary key. */
 export const idColumn: EntitySchemaColumnOptions = {
   type: 'int',

@@ -1,18 +1,16 @@
 import type { DataSource } from 'typeorm';
-import { insertAuditEvent } from '../audit/data-access/audit-repository';
-import { appTables } from '../database/data-source';
+import { insertAuditEvent } from '../audit';
 import {
   insertMembership,
   insertToken,
   insertUser,
   updateUser,
-} from '../identity/data-access/identity-repository';
-import { hashPassword } from '../identity/domain/passwords';
-import { invitationLifetimeMs, newOneTimeToken } from '../identity/domain/tokens';
-import {
-  insertOrganisation,
-  insertSite,
-} from '../organisations/data-access/organisation-repository';
+  hashPassword,
+  invitationLifetimeMs,
+  newOneTimeToken,
+} from '../identity';
+import { insertOrganisation, insertSite } from '../organisations';
+import { appTables } from '../database/data-source';
 import { demoOrganisations, demoPassword } from './demo-data';
 import { loadDemoCatalog, type DemoCatalogSummary } from './load-demo-catalog';
 

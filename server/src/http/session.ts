@@ -3,8 +3,7 @@ import session from 'express-session';
 import createMySQLStore from 'express-mysql-session';
 import type { DataSource } from 'typeorm';
 import type { Config } from '../config';
-import { toAuthContext } from '../identity/domain/auth-context';
-import { loadSessionUser } from '../identity/data-access/identity-repository';
+import { toAuthContext, loadSessionUser } from '../identity';
 import { csrfCookieName, newCsrfToken, writeCsrfCookie } from './csrf';
 import { AppError } from './errors';
 

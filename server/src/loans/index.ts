@@ -1,5 +1,13 @@
-// The loans component's front door: other components and the app use only what is exported here.
-export { loanRoutes } from './api/routes';
+// The loans component's front door: other components and the app use only what is exported
+// here. The model for a component: see "Adding a server component" in DEVELOPERS.md.
+import { availabilityDepsOf } from '../availability';
+import type { AppComponent } from '../app-services';
+import { Loans1764720060000 } from '../database/migrations/1764720060000-loans';
+import { HoldsHospital1764979200000 } from '../database/migrations/1764979200000-holds-hospital';
+import { loanRoutes } from './api/routes';
+import { HoldEntity, LoanEntity, LoanEventEntity, LoanUnitEntity } from './data-access/entities';
+import type { LoanDeps } from './domain/deps';
+
 export type { LoanDeps } from './domain/deps';
 export {
   loanNotificationEvents,
@@ -26,3 +34,18 @@ export {
 } from './domain/transitions';
 export { requestLoan } from './domain/booking';
 export { canSeeLoan, getLoan, listLoans } from './domain/queries';
+
+/** Loans, their units, holds and events: tables, the state machine and `/api/loans`. */
+export const loansComponent: AppComponent = {
+  name: 'loans',
+  entities: [LoanEntity, LoanUnitEntity, HoldEntity, LoanEventEntity],
+  migrations: [Loans1764720060000, HoldsHospital1764979200000],
+  routers: (ctx) => {
+    const deps: LoanDeps = {
+      ...availabilityDepsOf(ctx),
+      // Loan e-mails and in-app notifications, written in the loan's own transaction.
+      notifyLoanEvent: ctx.services.notifyLoanEvent,
+    };
+    return [loanRoutes(deps, ctx.catalogue)];
+  },
+};

@@ -1,4 +1,5 @@
 import type { EntityManager } from 'typeorm';
+import { likePattern } from '../../database/sql';
 import type {
   Depot,
   DepotInput,
@@ -7,7 +8,7 @@ import type {
   ShippingSettings,
   UnitStatus,
 } from '@evalon/contracts';
-import { SiteEntity } from '../../organisations/data-access/entities';
+import { SiteEntity } from '../../organisations';
 import {
   LenderSettingsEntity,
   ModelEntity,
@@ -18,11 +19,6 @@ import {
   type PhotoRow,
   type UnitRow,
 } from './entities';
-
-/** Escapes `%`, `_` and `\` for a LIKE pattern. */
-export function likePattern(text: string): string {
-  return `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-}
 
 /** mysql2 may return a JSON column as text or as parsed JSON. */
 function json<T>(value: unknown): T {

@@ -1,13 +1,6 @@
-import { EntitySchema, type ValueTransformer } from 'typeorm';
+import { EntitySchema } from 'typeorm';
 import type { ModelCategory, UnitStatus } from '@evalon/contracts';
-import { idColumn, instantColumn, refColumn } from '../../database/columns';
-
-/** mysql2 hands BIGINT back as a string (TypeORM turns on bigNumberStrings); amounts fit a double. */
-export const bigintAsNumber: ValueTransformer = {
-  to: (value: number | null | undefined) => value,
-  from: (value: string | number | null) =>
-    value === null || value === undefined ? value : Number(value),
-};
+import { bigintAsNumber, idColumn, instantColumn, refColumn } from '../../database/columns';
 
 /** A row of `lender_settings`: one lender's shipping settings. */
 export interface LenderSettingsRow {

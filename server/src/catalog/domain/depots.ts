@@ -7,7 +7,7 @@ import type {
 } from '@evalon/contracts';
 import { publicHolidays } from '@evalon/scheduling';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import type { AuthContext } from '../../identity';
 import {
   findDepot,
   findOrganisationKind,

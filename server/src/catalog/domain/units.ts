@@ -10,7 +10,7 @@ import type {
 } from '@evalon/contracts';
 import { intervalsOverlap } from '@evalon/scheduling';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import type { AuthContext } from '../../identity';
 import {
   bumpBookingVersion,
   findDepot,

@@ -4,10 +4,9 @@ import type {
   SessionUser,
   UpdateProfileRequest,
 } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
+import { insertAuditEvent } from '../../audit';
+import { enqueueEmail, passwordResetEmail } from '../../notifications';
 import { AppError } from '../../http/errors';
-import { enqueueEmail } from '../../notifications/outbox';
-import { passwordResetEmail } from '../../notifications/templates';
 import {
   deleteSessionsOfUser,
   findUserByEmail,

@@ -6,11 +6,10 @@ import type {
   Role,
   SetPasswordRequest,
 } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
+import { insertAuditEvent } from '../../audit';
+import { enqueueEmail, addedToOrganisationEmail, invitationEmail } from '../../notifications';
+import { findOrganisation } from '../../organisations';
 import { AppError } from '../../http/errors';
-import { enqueueEmail } from '../../notifications/outbox';
-import { addedToOrganisationEmail, invitationEmail } from '../../notifications/templates';
-import { findOrganisation } from '../../organisations/data-access/organisation-repository';
 import {
   deleteSessionsOfUser,
   findMembership,

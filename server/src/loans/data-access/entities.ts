@@ -1,7 +1,6 @@
 import { EntitySchema } from 'typeorm';
 import type { LoanState } from '@evalon/contracts';
-import { idColumn, instantColumn, refColumn } from '../../database/columns';
-import { bigintAsNumber } from '../../catalog/data-access/entities';
+import { bigintAsNumber, idColumn, instantColumn, refColumn } from '../../database/columns';
 
 const dateColumn = (name: string) => ({ type: 'date' as const, name });
 

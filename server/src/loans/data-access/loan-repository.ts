@@ -1,6 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { LoanEvent, LoanState, Milestones } from '@evalon/contracts';
-import { likePattern } from '../../catalog/data-access/catalog-repository';
+import { likePattern } from '../../database/sql';
 import { LoanEntity, type LoanRow } from './entities';
 
 /** A new loan's fields. */

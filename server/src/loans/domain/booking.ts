@@ -11,23 +11,24 @@ import {
 import { DepositError, depositForLoan } from '@evalon/deposits';
 import { intervalsOverlap, type DateInterval } from '@evalon/scheduling';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { lockUnits } from '../../catalog/data-access/catalog-repository';
-import { findHoldsForUnits, insertHolds } from '../../catalog/data-access/hold-repository';
-import { isBuyerOf } from '../../catalog/domain/scope';
-import { toSchedulingSettings } from '../../catalog/domain/shipping-settings';
+import type { AuthContext } from '../../identity';
+import {
+  lockUnits,
+  findHoldsForUnits,
+  insertHolds,
+  isBuyerOf,
+  toSchedulingSettings,
+} from '../../catalog';
 import {
   findCandidates,
   type CandidateUnit,
-} from '../../availability/data-access/availability-repository';
-import {
   alternativesFor,
   checkUseWindow,
   evaluateForWindow,
   holdsByUnit,
   resolveCampus,
   type Campus,
-} from '../../availability/domain/availability';
+} from '../../availability';
 import { bumpBookingVersions, insertLoan, insertLoanUnits } from '../data-access/loan-repository';
 import type { LoanDeps } from './deps';
 import { toLoan } from './queries';

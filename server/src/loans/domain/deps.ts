@@ -1,4 +1,4 @@
-import type { AvailabilityDeps } from '../../availability/domain/availability';
+import type { AvailabilityDeps } from '../../availability';
 import type { NotifyLoanEvent } from './notifications';
 
 /** What the loan use cases need: the availability engine's deps plus the notification hook. */

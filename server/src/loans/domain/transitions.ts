@@ -1,10 +1,8 @@
 import type { EntityManager } from 'typeorm';
 import type { Loan, LoanAction, LoanState } from '@evalon/contracts';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { lockUnits } from '../../catalog/data-access/catalog-repository';
-import { deleteLoanHolds } from '../../catalog/data-access/hold-repository';
-import { isBuyerOf, isFleetManagerOf } from '../../catalog/domain/scope';
+import type { AuthContext } from '../../identity';
+import { lockUnits, deleteLoanHolds, isBuyerOf, isFleetManagerOf } from '../../catalog';
 import {
   bumpBookingVersions,
   insertLoanEvent,

@@ -13,7 +13,7 @@ import {
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
-import { requestContext } from '../../identity/api/auth-routes';
+import { requestContext } from '../../identity';
 import { listOutbox, resendOutboxMessage } from '../domain/outbox-admin';
 import { listNotifications, readAllNotifications, readNotification } from '../in-app';
 

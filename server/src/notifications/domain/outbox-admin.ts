@@ -1,8 +1,8 @@
 import type { DataSource } from 'typeorm';
 import type { OutboxMessage, OutboxQuery } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
+import { insertAuditEvent } from '../../audit';
+import type { AuthContext } from '../../identity';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
 import {
   findOutboxMessages,
   findOutboxRow,

@@ -1,6 +1,6 @@
 import { DateTime } from 'luxon';
 import { chooseStrategy, type DepositStrategy } from '@evalon/deposits';
-import { defaultDepositDueBy } from '../../notifications/loan-notifications';
+import { defaultDepositDueBy } from '../../notifications';
 
 /** One unit's depot calendar days that bound the deposit: when it ships and is ready again. */
 export interface UnitFootprintDays {

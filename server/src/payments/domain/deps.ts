@@ -1,8 +1,8 @@
 import type { DataSource } from 'typeorm';
 import type { PaymentsConfig } from '../../config';
-import type { PhotoStore } from '../../catalog/domain/photo-store';
+import type { PhotoStore } from '../../catalog';
+import type { NotifyLoanEvent } from '../../loans';
 import type { Logger } from '../../logger';
-import type { NotifyLoanEvent } from '../../notifications/loan-notifications';
 import type { PaymentsClient } from './provider';
 
 /** What the payments use cases need. */

@@ -6,12 +6,11 @@ import {
   type LoanDocument,
   type LoanDocumentKind,
 } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/domain/audit';
-import { isBuyerOf } from '../../catalog/domain/scope';
-import type { PhotoStore } from '../../catalog/domain/photo-store';
+import { insertAuditEvent } from '../../audit';
+import { isBuyerOf, type PhotoStore } from '../../catalog';
+import type { AuthContext } from '../../identity';
+import { canSeeLoan } from '../../loans';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { canSeeLoan } from '../../loans/domain/queries';
 import { findLoanDeposit } from '../data-access/payment-repository';
 import {
   findLoanDocument,

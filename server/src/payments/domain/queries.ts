@@ -1,7 +1,7 @@
 import { depositCaution, type LoanPayments, type Payment } from '@evalon/contracts';
 import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { canSeeLoan } from '../../loans/domain/queries';
+import type { AuthContext } from '../../identity';
+import { canSeeLoan } from '../../loans';
 import { findActiveCreditAgreement } from '../data-access/credit-agreement-repository';
 import {
   findLoanDeposit,
