@@ -4,14 +4,13 @@ import type { AppComponent } from '../app-services';
 import { OutboxNotifications1764806400000 } from '../database/migrations/1764806400000-outbox-notifications';
 import { adminOutboxRoutes, notificationRoutes } from './api/routes';
 import { NotificationEntity, OutboxMessageEntity } from './data-access/entities';
-import { OutboxCommitSubscriber } from './outbox';
-import { createOutboxWorker } from './outbox-worker';
+import { OutboxCommitSubscriber } from './domain/outbox';
+import { createOutboxWorker } from './domain/outbox-worker';
 
-export { defaultDepositDueBy, loanNotifierFromConfig } from './loan-notifications';
-export { SmtpMailer, type Mailer } from './mailer';
-export { enqueueEmail } from './outbox';
-export { createOutboxWorker } from './outbox-worker';
-export { addedToOrganisationEmail, invitationEmail, passwordResetEmail } from './templates';
+export { defaultDepositDueBy, loanNotifierFromConfig } from './domain/loan-notifications';
+export { SmtpMailer, type Mailer } from './domain/mailer';
+export { enqueueEmail } from './domain/outbox';
+export { createOutboxWorker } from './domain/outbox-worker';
 
 /** E-mail through the outbox, in-app notifications and the outbox admin page. */
 export const notificationsComponent: AppComponent = {

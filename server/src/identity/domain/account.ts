@@ -5,7 +5,8 @@ import type {
   UpdateProfileRequest,
 } from '@evalon/contracts';
 import { insertAuditEvent } from '../../audit';
-import { enqueueEmail, passwordResetEmail } from '../../notifications';
+import { passwordResetEmail } from '@evalon/messages';
+import { enqueueEmail } from '../../notifications';
 import { AppError } from '../../http/errors';
 import {
   deleteSessionsOfUser,

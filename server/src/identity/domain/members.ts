@@ -7,7 +7,8 @@ import type {
   SetPasswordRequest,
 } from '@evalon/contracts';
 import { insertAuditEvent } from '../../audit';
-import { enqueueEmail, addedToOrganisationEmail, invitationEmail } from '../../notifications';
+import { addedToOrganisationEmail, invitationEmail } from '@evalon/messages';
+import { enqueueEmail } from '../../notifications';
 import { findOrganisation } from '../../organisations';
 import { AppError } from '../../http/errors';
 import {

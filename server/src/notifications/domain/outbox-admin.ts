@@ -9,7 +9,7 @@ import {
   requeueParked,
   toOutboxMessage,
 } from '../data-access/outbox-repository';
-import { nudgeAfterCommit } from '../outbox';
+import { nudgeAfterCommit } from './outbox';
 
 /** Outbox messages of one status for the platform admin (access is checked by the route). */
 export function listOutbox(dataSource: DataSource, query: OutboxQuery): Promise<OutboxMessage[]> {

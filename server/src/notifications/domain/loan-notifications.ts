@@ -1,8 +1,8 @@
 import { DateTime } from 'luxon';
 import type { EntityManager } from 'typeorm';
-import type { Config } from '../config';
+import type { Config } from '../../config';
 import type { Role } from '@evalon/contracts';
-import type { LoanEventNotice, LoanNotificationEvent, NotifyLoanEvent } from '../loans';
+import type { LoanEventNotice, LoanNotificationEvent, NotifyLoanEvent } from '../../loans';
 import {
   loanApproved,
   loanCancelled,
@@ -20,8 +20,8 @@ import {
   sqlLoanNotificationLoader,
   type LoanNotificationData,
   type LoanNotificationLoader,
-} from './data-access/loan-notification-repository';
-import type { Recipient } from './data-access/notification-repository';
+} from '../data-access/loan-notification-repository';
+import type { Recipient } from '../data-access/notification-repository';
 import { notifyUsers, recipientsFor } from './in-app';
 import { enqueueEmail } from './outbox';
 import { messageIdDomain } from './outbox-worker';
@@ -31,14 +31,14 @@ export {
   sqlLoanNotificationLoader,
   type LoanNotificationData,
   type LoanNotificationLoader,
-} from './data-access/loan-notification-repository';
+} from '../data-access/loan-notification-repository';
 
 export {
   loanNotificationEvents,
   type LoanEventNotice,
   type LoanNotificationEvent,
   type NotifyLoanEvent,
-} from '../loans';
+} from '../../loans';
 
 /** How long a buyer has to secure the deposit when nothing else says so. */
 export const defaultDepositWindowMs = 72 * 3_600_000;
