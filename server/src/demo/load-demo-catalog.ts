@@ -64,6 +64,7 @@ async function siteIdByName(dataSource: DataSource, name: string): Promise<numbe
 export async function loadDemoCatalog(
   dataSource: DataSource,
   now: Date,
+  depositWindowMs: number,
 ): Promise<DemoCatalogSummary> {
   const summary: DemoCatalogSummary = { models: 0, units: 0, maintenanceHolds: 0, loans: 0 };
   const [lender] = (await dataSource.query('SELECT id FROM organisations WHERE name = ?', [
@@ -140,6 +141,7 @@ export async function loadDemoCatalog(
     plans: new PlannerCache(),
     now: () => now,
     notifyLoanEvent: noLoanNotifications,
+    depositWindowMs,
   };
   const today = now.toISOString().slice(0, 10);
   const fleet = await authOf(dataSource, demoLender.fleetManager);

@@ -45,6 +45,7 @@ export const loansComponent: AppComponent = {
       ...availabilityDepsOf(ctx),
       // Loan e-mails and in-app notifications, written in the loan's own transaction.
       notifyLoanEvent: ctx.services.notifyLoanEvent,
+      depositWindowMs: ctx.config.payments.depositWindowMs,
     };
     return [loanRoutes(deps, ctx.catalogue)];
   },

@@ -7,7 +7,7 @@ import { NotificationEntity, OutboxMessageEntity } from './data-access/entities'
 import { OutboxCommitSubscriber } from './domain/outbox';
 import { createOutboxWorker } from './domain/outbox-worker';
 
-export { defaultDepositDueBy, loanNotifierFromConfig } from './domain/loan-notifications';
+export { loanNotifierFromConfig } from './domain/loan-notifications';
 export { SmtpMailer, type Mailer } from './domain/mailer';
 export { enqueueEmail } from './domain/outbox';
 export { createOutboxWorker } from './domain/outbox-worker';

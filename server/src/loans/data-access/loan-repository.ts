@@ -162,6 +162,28 @@ export async function updateLoanState(
   await m.query('UPDATE loans SET state = ?, updated_at = ? WHERE id = ?', [state, now, id]);
 }
 
+/** Each unit's ship-by day and depot zone, which bound the deposit deadline. */
+export async function loanUnitShipDays(
+  m: EntityManager,
+  loanId: number,
+): Promise<{ shipBy: string; depotTimeZone: string }[]> {
+  const rows: { shipBy: string; depotTimeZone: string }[] = await m.query(
+    `SELECT DATE_FORMAT(ship_by, '%Y-%m-%d') AS shipBy, depot_time_zone AS depotTimeZone
+       FROM loan_units WHERE loan_id = ? ORDER BY unit_id`,
+    [loanId],
+  );
+  return rows;
+}
+
+/** Stores a loan's deposit deadline (set once, at approval). */
+export async function setLoanDepositDueAt(
+  m: EntityManager,
+  loanId: number,
+  due: Date,
+): Promise<void> {
+  await m.query('UPDATE loans SET deposit_due_at = ? WHERE id = ?', [due, loanId]);
+}
+
 /** Unit ids of a loan. */
 export async function loanUnitIds(m: EntityManager, loanId: number): Promise<number[]> {
   const rows: { unit_id: number }[] = await m.query(

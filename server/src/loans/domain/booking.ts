@@ -256,10 +256,7 @@ async function bookInTransaction(
     'request',
     { userId: auth.user.id },
     null,
-    {
-      now,
-      notifyLoanEvent: deps.notifyLoanEvent,
-    },
+    { now, notifyLoanEvent: deps.notifyLoanEvent, depositWindowMs: deps.depositWindowMs },
   );
 
   const loan = toLoan(

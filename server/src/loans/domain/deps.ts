@@ -5,4 +5,6 @@ import type { NotifyLoanEvent } from './notifications';
 export interface LoanDeps extends AvailabilityDeps {
   /** Called inside each loan-changing transaction (default: does nothing). */
   notifyLoanEvent: NotifyLoanEvent;
+  /** How long a buyer has to secure the deposit after approval (from the configuration). */
+  depositWindowMs: number;
 }

@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { Loan, LoanAction, LoanState } from '@evalon/contracts';
+import { depositDeadline } from '@evalon/deposits';
 import { AppError } from '../../http/errors';
 import type { AuthContext } from '../../identity';
 import { lockUnits, deleteLoanHolds, isBuyerOf, isFleetManagerOf } from '../../catalog';
@@ -8,6 +9,8 @@ import {
   insertLoanEvent,
   loanUnitIds,
   lockLoan,
+  loanUnitShipDays,
+  setLoanDepositDueAt,
   updateLoanState,
 } from '../data-access/loan-repository';
 import type { LoanDeps } from './deps';
@@ -25,10 +28,12 @@ export interface LoanActor {
   userId: number | null;
 }
 
-/** What {@link applyLoanTransition} needs besides the loan: the clock and the notification port. */
+/** What {@link applyLoanTransition} needs besides the loan. */
 export interface TransitionContext {
   now: Date;
   notifyLoanEvent: NotifyLoanEvent;
+  /** How long a buyer has to secure the deposit after approval (`EVALON_DEPOSIT_WINDOW_HOURS`). */
+  depositWindowMs: number;
 }
 
 /**
@@ -62,6 +67,12 @@ export async function applyLoanTransition(
   }
   // A new loan is inserted in its first state; the step records its event and notice.
   if (plan.from !== null) await updateLoanState(m, loan.id, plan.to, ctx.now);
+  if (plan.to === 'approved') {
+    // The deposit deadline is fixed once, here, by the @evalon/deposits rule; the approval
+    // e-mail, the deposit page and the expiry job all read the stored instant.
+    const due = depositDeadline(ctx.now, await loanUnitShipDays(m, loan.id), ctx.depositWindowMs);
+    await setLoanDepositDueAt(m, loan.id, due);
+  }
   await insertLoanEvent(
     m,
     {
@@ -119,6 +130,7 @@ export async function transitionLoan(
     await applyLoanTransition(m, loan, action, { userId: auth.user.id }, reason, {
       now: deps.now(),
       notifyLoanEvent: deps.notifyLoanEvent,
+      depositWindowMs: deps.depositWindowMs,
     });
   });
   return getLoan(deps.dataSource.manager, auth, loanId);

@@ -1,7 +1,7 @@
-import { DateTime } from 'luxon';
 import type { EntityManager } from 'typeorm';
 import type { Config } from '../../config';
 import type { Role } from '@evalon/contracts';
+import { unitDepositDueBy } from '@evalon/deposits';
 import type { LoanEventNotice, LoanNotificationEvent, NotifyLoanEvent } from '../../loans';
 import {
   loanApproved,
@@ -40,29 +40,12 @@ export {
   type NotifyLoanEvent,
 } from '../../loans';
 
-/** How long a buyer has to secure the deposit when nothing else says so. */
-export const defaultDepositWindowMs = 72 * 3_600_000;
-
 /**
- * A stand-in deadline for securing the deposit until the loans or payments component stores
- * one: the approval time plus `windowMs`, but never later than the start of the ship-by day at
- * the first unit's depot (a unit does not ship before its deposit is secured). A product
- * default, not a rule from any source; the e-mail calls it a deadline, the loan state decides.
+ * The deadline rule of @evalon/deposits for one unit, kept under its old name for callers here.
+ * The notifier uses it only for a loan approved without a stored deadline (rows written before
+ * deadlines were stored at approval); every other loan's e-mail shows the stored `deposit_due_at`.
  */
-export function defaultDepositDueBy(
-  approvedAt: Date,
-  shipBy: string,
-  depotTimeZone: string,
-  windowMs = defaultDepositWindowMs,
-): Date {
-  const window = new Date(approvedAt.getTime() + windowMs);
-  const shipDay = DateTime.fromISO(shipBy, { zone: depotTimeZone }).startOf('day');
-  if (!shipDay.isValid) return window;
-  const latest = shipDay.toJSDate();
-  // Never before the approval itself (a same-day loan): then the approval time stands.
-  const due = latest < window ? latest : window;
-  return due < approvedAt ? approvedAt : due;
-}
+export { defaultDepositWindowMs, unitDepositDueBy as defaultDepositDueBy } from '@evalon/deposits';
 
 /** Settings of {@link createLoanNotifier}. */
 export interface LoanNotifierOptions {
@@ -229,7 +212,7 @@ export function createLoanNotifier(options: LoanNotifierOptions): NotifyLoanEven
     }
     const depositDueBy =
       data.depositDueBy ??
-      defaultDepositDueBy(data.approvedAt ?? now, loan.milestones.shipBy, data.lenderTimeZone);
+      unitDepositDueBy(data.approvedAt ?? now, loan.milestones.shipBy, data.lenderTimeZone);
 
     const render = (to: MessageRecipient): LoanEmail => {
       const base = { loan, publicUrl };

@@ -48,7 +48,7 @@ export interface ConfirmationCause {
  */
 export async function confirmLoan(
   m: EntityManager,
-  deps: Pick<PaymentsDeps, 'notifyLoanEvent' | 'now'>,
+  deps: Pick<PaymentsDeps, 'notifyLoanEvent' | 'now' | 'config'>,
   loan: LoanDepositRow,
   cause: ConfirmationCause,
 ): Promise<void> {
@@ -63,6 +63,7 @@ export async function confirmLoan(
   await applyLoanTransition(m, loan, 'confirm', { userId: cause.actorUserId }, cause.reason, {
     now,
     notifyLoanEvent: deps.notifyLoanEvent,
+    depositWindowMs: deps.config.depositWindowMs,
   });
 }
 

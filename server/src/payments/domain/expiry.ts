@@ -66,7 +66,11 @@ export async function runDepositExpiry(
         'expire',
         { userId: null },
         `The deposit was not secured by ${loan.depositDueAt.toISOString()}.`,
-        { now, notifyLoanEvent: deps.notifyLoanEvent },
+        {
+          now,
+          notifyLoanEvent: deps.notifyLoanEvent,
+          depositWindowMs: deps.config.depositWindowMs,
+        },
       );
       return true;
     });
