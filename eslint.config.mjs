@@ -6,8 +6,8 @@ import tseslint from 'typescript-eslint';
 
 // Server components meet only at their front doors (`server/src/<component>/index.ts`): no
 // file imports another component's api/, domain/, data-access/ or other internal files, and the
-// app's own wiring (app.ts, main.ts, database/, http/, demo/) imports components the same way.
-const serverInfrastructure = new Set(['database', 'http', 'types', 'demo']);
+// app's own wiring (app.ts, main.ts, database/, http/, storage/, demo/) imports components the same way.
+const serverInfrastructure = new Set(['database', 'http', 'storage', 'types', 'demo']);
 const serverComponents = fs
   .readdirSync(new URL('./server/src/', import.meta.url), { withFileTypes: true })
   .filter((e) => e.isDirectory() && !serverInfrastructure.has(e.name))

@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import type { LenderSettingsCache, PhotoStore } from './catalog';
+import type { LenderSettingsCache } from './catalog';
 import type { PlannerCache, SiteCache } from './availability';
 import type { Config } from './config';
 import type { NotifyLoanEvent } from './loans';
@@ -8,6 +8,7 @@ import type { MapsOptions } from './maps';
 import type { Mailer } from './notifications';
 import type { PaymentsClient } from './payments';
 import type { ComponentContext, ServerComponent } from './component';
+import type { FileStore } from './storage/file-store';
 
 /**
  * The services `createApp` makes once per app and hands to every component, so that components
@@ -19,9 +20,9 @@ export interface AppServices {
   plans: PlannerCache;
   sites: SiteCache;
   /** Where model photos live. */
-  photoStore: PhotoStore;
+  photoStore: FileStore;
   /** Where loan documents live. */
-  documentStore: PhotoStore;
+  documentStore: FileStore;
   /** The loan notification port's implementation (the outbox's loan notifier). */
   notifyLoanEvent: NotifyLoanEvent;
   maps: MapsOptions;

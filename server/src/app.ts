@@ -5,7 +5,7 @@ import { pinoHttp } from 'pino-http';
 import type { DataSource } from 'typeorm';
 import type { AppContext, AppServices } from './app-services';
 import { PlannerCache, SiteCache } from './availability';
-import { LenderSettingsCache, photoStoreFromEnv, type PhotoStore } from './catalog';
+import { LenderSettingsCache, LocalPhotoStore } from './catalog';
 import { serverComponents } from './components';
 import type { Config } from './config';
 import { csrfProtection } from './http/csrf';
@@ -16,9 +16,10 @@ import { createSessionMiddleware, loadSignedInUser } from './http/session';
 import { mountWebApp } from './http/web-app';
 import type { NotifyLoanEvent } from './loans';
 import type { Logger } from './logger';
-import { mapsOptionsFromEnv, type MapsOptions } from './maps';
+import { mapsOptionsFromConfig, type MapsOptions } from './maps';
 import { loanNotifierFromConfig, type Mailer } from './notifications';
-import { createPaymentsClient, documentStoreFromEnv, type PaymentsClient } from './payments';
+import { createPaymentsClient, LocalDocumentStore, type PaymentsClient } from './payments';
+import type { FileStore } from './storage/file-store';
 
 /** What the app is built from; `main.ts` makes the real ones, tests their own. */
 export interface AppDeps {
@@ -36,14 +37,14 @@ export interface AppDeps {
   now?: () => Date;
   /** Called inside every loan-changing transaction (default: the outbox's loan notifier). */
   notifyLoanEvent?: NotifyLoanEvent;
-  /** Where model photos live (default: `EVALON_UPLOAD_DIR`, a local folder). */
-  photoStore?: PhotoStore;
-  /** Maps script settings (default: `EVALON_MAPS_API_KEY` and the offline stand-in). */
+  /** Where model photos live (default: `config.storage.photoDir`, a local folder). */
+  photoStore?: FileStore;
+  /** Maps script settings (default: `config.maps` and the offline stand-in). */
   maps?: MapsOptions;
   /** The payment provider's SDK client (default: one made from `config.payments`). */
   paymentsClient?: PaymentsClient;
-  /** Where loan documents live (default: `EVALON_DOCUMENT_DIR`, a local folder). */
-  documentStore?: PhotoStore;
+  /** Where loan documents live (default: `config.storage.documentDir`, a local folder). */
+  documentStore?: FileStore;
 }
 
 const requestIdPattern = /^[A-Za-z0-9._-]{1,64}$/;
@@ -94,10 +95,10 @@ export function createApp(deps: AppDeps): Express {
     settingsCache: new LenderSettingsCache(),
     plans: new PlannerCache(),
     sites: new SiteCache(),
-    photoStore: deps.photoStore ?? photoStoreFromEnv(),
-    documentStore: deps.documentStore ?? documentStoreFromEnv(),
+    photoStore: deps.photoStore ?? new LocalPhotoStore(config.storage.photoDir),
+    documentStore: deps.documentStore ?? new LocalDocumentStore(config.storage.documentDir),
     notifyLoanEvent: deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now }),
-    maps: deps.maps ?? mapsOptionsFromEnv(),
+    maps: deps.maps ?? mapsOptionsFromConfig(config),
     paymentsClient: deps.paymentsClient ?? createPaymentsClient(config.payments),
   };
   const catalogue: CatalogueEntry[] = [];

@@ -29,7 +29,7 @@ export {
 } from './data-access/hold-repository';
 export type { CatalogDeps } from './domain/deps';
 export { unitDeposit } from './domain/models';
-export { LocalPhotoStore, photoStoreFromEnv, type PhotoStore } from './domain/photo-store';
+export { LocalPhotoStore, type PhotoStore } from './domain/photo-store';
 export {
   isBuyerOf,
   isFleetManagerOf,

@@ -1,6 +1,6 @@
 import type { Request, RequestHandler } from 'express';
 import type { Role } from '@evalon/contracts';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 import { notSignedInError } from './session';
 import type { AuthContext } from '../identity';
 

@@ -5,7 +5,7 @@ import type { DataSource } from 'typeorm';
 import type { Config } from '../config';
 import { toAuthContext, loadSessionUser } from '../identity';
 import { csrfCookieName, newCsrfToken, writeCsrfCookie } from './csrf';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 
 /** Name of the session cookie. */
 export const sessionCookieName = 'evalon.sid';

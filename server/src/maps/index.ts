@@ -2,7 +2,7 @@
 import type { AppComponent } from '../app-services';
 import { mapsRoutes } from './api/routes';
 
-export { mapsOptionsFromEnv, type MapsOptions } from './api/routes';
+export { mapsOptionsFromConfig, type MapsOptions } from './api/routes';
 
 /** The maps script (hosted with a key, else the offline stand-in) and `/api/config`. */
 export const mapsComponent: AppComponent = {

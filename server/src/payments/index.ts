@@ -2,7 +2,7 @@
 // exported here.
 import type { DataSource } from 'typeorm';
 import type { AppComponent, AppServices } from '../app-services';
-import type { PhotoStore } from '../catalog';
+import type { FileStore } from '../storage/file-store';
 import type { Config } from '../config';
 import { Payments1764892800000 } from '../database/migrations/1764892800000-payments';
 import type { NotifyLoanEvent } from '../loans';
@@ -10,14 +10,14 @@ import type { Logger } from '../logger';
 import { loanNotifierFromConfig } from '../notifications';
 import { creditAgreementRoutes, loanPaymentRoutes, paymentWebhookRoutes } from './api/routes';
 import type { PaymentsDeps } from './domain/deps';
-import { documentStoreFromEnv } from './domain/documents';
+import { LocalDocumentStore } from './domain/documents';
 import { startDepositExpiryJob } from './domain/expiry';
 import { createPaymentsClient, type PaymentsClient } from './domain/provider';
 
 export { runDepositExpiry, startDepositExpiryJob, type ExpiryJob } from './domain/expiry';
 export { settleDeposit } from './domain/settlement';
 export { createPaymentsClient, type PaymentsClient } from './domain/provider';
-export { documentStoreFromEnv } from './domain/documents';
+export { LocalDocumentStore } from './domain/documents';
 export type { PaymentsDeps } from './domain/deps';
 
 /**
@@ -30,7 +30,7 @@ export function createPaymentsDeps(input: {
   logger: Logger;
   now?: () => Date;
   provider?: PaymentsClient;
-  documentStore?: PhotoStore;
+  documentStore?: FileStore;
   notifyLoanEvent?: NotifyLoanEvent;
 }): PaymentsDeps {
   const now = input.now ?? (() => new Date());
@@ -41,7 +41,7 @@ export function createPaymentsDeps(input: {
     config: input.config.payments,
     publicUrl: input.config.http.publicUrl,
     notifyLoanEvent: input.notifyLoanEvent ?? loanNotifierFromConfig(input.config, { now }),
-    documentStore: input.documentStore ?? documentStoreFromEnv(),
+    documentStore: input.documentStore ?? new LocalDocumentStore(input.config.storage.documentDir),
     now,
   };
 }

@@ -1,6 +1,6 @@
 import type { DataSource } from 'typeorm';
 import type { AuditEvent, AuditQuery } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import { type AuthContext, managesOrganisation } from '../../identity';
 import { findAuditEvents } from '../data-access/audit-repository';
 

@@ -11,7 +11,7 @@ import {
   type AvailabilityResponse,
 } from '@evalon/contracts';
 import { addCalendarDays, publicHolidays, toSiteDate, windowLengthDays } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   findSiteWithOrganisation,

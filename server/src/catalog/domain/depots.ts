@@ -6,7 +6,7 @@ import type {
   ShippingSettingsResponse,
 } from '@evalon/contracts';
 import { publicHolidays } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   findDepot,

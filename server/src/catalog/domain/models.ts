@@ -1,7 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { Model, ModelInput, ModelQuery, Photo } from '@evalon/contracts';
 import { DepositError, depositForModel } from '@evalon/deposits';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   findModel,

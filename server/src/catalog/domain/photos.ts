@@ -1,5 +1,5 @@
 import type { Photo } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   countPhotos,

@@ -9,7 +9,7 @@ import type {
   UnitUpdate,
 } from '@evalon/contracts';
 import { intervalsOverlap } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   bumpBookingVersion,

@@ -7,7 +7,7 @@ import type {
 import { insertAuditEvent } from '../../audit';
 import { passwordResetEmail } from '@evalon/messages';
 import { enqueueEmail } from '../../notifications';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import {
   deleteSessionsOfUser,
   findUserByEmail,

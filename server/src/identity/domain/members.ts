@@ -10,7 +10,7 @@ import { insertAuditEvent } from '../../audit';
 import { addedToOrganisationEmail, invitationEmail } from '@evalon/messages';
 import { enqueueEmail } from '../../notifications';
 import { findOrganisation } from '../../organisations';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import {
   deleteSessionsOfUser,
   findMembership,

@@ -1,5 +1,5 @@
 import type { LoginRequest, SignInRedirectError } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import { insertAuditEvent } from '../../audit';
 import {
   findUserByEmail,

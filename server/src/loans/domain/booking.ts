@@ -10,7 +10,7 @@ import {
 } from '@evalon/contracts';
 import { DepositError, depositForLoan } from '@evalon/deposits';
 import { intervalsOverlap, type DateInterval } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   lockUnits,

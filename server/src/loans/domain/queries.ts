@@ -1,6 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { Loan, LoanQuery } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   isBuyerOf,

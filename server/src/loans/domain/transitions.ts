@@ -1,7 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { Loan, LoanAction, LoanState } from '@evalon/contracts';
 import { depositDeadline } from '@evalon/deposits';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { lockUnits, deleteLoanHolds, isBuyerOf, isFleetManagerOf } from '../../catalog';
 import {

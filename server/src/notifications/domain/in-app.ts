@@ -6,7 +6,7 @@ import type {
   ReadAllResponse,
   Role,
 } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import {
   countUnread,
   findNotifications,

@@ -2,7 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { OutboxMessage, OutboxQuery } from '@evalon/contracts';
 import { insertAuditEvent } from '../../audit';
 import type { AuthContext } from '../../identity';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import {
   findOutboxMessages,
   findOutboxRow,

@@ -1,6 +1,6 @@
 import type { DataSource } from 'typeorm';
 import type { Organisation, Site } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import {
   findOrganisation,

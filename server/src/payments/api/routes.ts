@@ -20,7 +20,8 @@ import {
   maxLoanDocumentBytes,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
-import { AppError, validationError } from '../../http/errors';
+import { AppError } from '../../errors';
+import { validationError } from '../../http/errors';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import { setCreditAgreement, listCreditAgreements } from '../domain/credit-agreements';
 import { refreshDeposit, startDeposit } from '../domain/deposit';

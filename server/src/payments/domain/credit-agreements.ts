@@ -2,7 +2,7 @@ import type { CreditAgreement } from '@evalon/contracts';
 import { insertAuditEvent } from '../../audit';
 import type { AuthContext } from '../../identity';
 import { findOrganisation } from '../../organisations';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import {
   findCreditAgreement,
   findCreditAgreements,

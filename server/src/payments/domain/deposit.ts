@@ -4,7 +4,7 @@ import { insertAuditEvent } from '../../audit';
 import { isBuyerOf } from '../../catalog';
 import type { AuthContext } from '../../identity';
 import { canSeeLoan, planTransition } from '../../loans';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import { findActiveCreditAgreement } from '../data-access/credit-agreement-repository';
 import {
   findLoanDeposit,

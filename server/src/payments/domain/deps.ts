@@ -1,6 +1,6 @@
 import type { DataSource } from 'typeorm';
 import type { PaymentsConfig } from '../../config';
-import type { PhotoStore } from '../../catalog';
+import type { FileStore } from '../../storage/file-store';
 import type { NotifyLoanEvent } from '../../loans';
 import type { Logger } from '../../logger';
 import type { PaymentsClient } from './provider';
@@ -20,6 +20,6 @@ export interface PaymentsDeps {
    */
   notifyLoanEvent: NotifyLoanEvent;
   /** Where loan documents live: the uploads storage interface, with PDF keys. */
-  documentStore: PhotoStore;
+  documentStore: FileStore;
   now: () => Date;
 }

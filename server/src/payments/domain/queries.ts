@@ -1,5 +1,5 @@
 import { depositCaution, type LoanPayments, type Payment } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { canSeeLoan } from '../../loans';
 import { findActiveCreditAgreement } from '../data-access/credit-agreement-repository';
