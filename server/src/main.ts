@@ -77,9 +77,11 @@ async function main(): Promise<void> {
   sweeper.unref();
 
   let stopping = false;
-  const stop = (signal: string) => {
+  /** Stops taking requests, lets the jobs finish, closes the pool; exits with `exitCode`. */
+  const stop = (signal: string, exitCode = 0) => {
     if (stopping) return;
     stopping = true;
+    process.exitCode = exitCode;
     logger.info({ signal }, 'Evalon server stopping');
     clearInterval(sweeper);
     // Each job finishes the work in hand (the outbox worker hands the rest of its batch back, so
@@ -93,15 +95,26 @@ async function main(): Promise<void> {
         dataSource
           .destroy()
           .catch(() => undefined)
-          .finally(() => process.exit(0));
+          .finally(() => process.exit(exitCode));
       });
     });
     server.closeIdleConnections();
     // Busy keep-alive connections can hold close() open; do not wait for ever.
-    setTimeout(() => process.exit(0), 5_000).unref();
+    setTimeout(() => process.exit(exitCode), 5_000).unref();
   };
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));
+  // A promise nobody awaited failed, or an exception escaped every handler: the process may be
+  // in a state no code planned for, so log what happened and stop the same clean way, with a
+  // failing exit code so a supervisor restarts it (rather than serve on half broken).
+  process.on('unhandledRejection', (reason: unknown) => {
+    logger.fatal({ err: reason }, 'unhandled promise rejection; stopping');
+    stop('unhandledRejection', 1);
+  });
+  process.on('uncaughtException', (error: Error) => {
+    logger.fatal({ err: error }, 'uncaught exception; stopping');
+    stop('uncaughtException', 1);
+  });
 }
 
 main().catch((error: unknown) => {
