@@ -7,6 +7,7 @@ import type { AppContext, AppServices } from './app-services';
 import { PlannerCache, SiteCache } from './availability';
 import { LenderSettingsCache, LocalPhotoStore } from './catalog';
 import { serverComponents } from './components';
+import { sessionUserLoader } from './identity';
 import type { Config } from './config';
 import { csrfProtection } from './http/csrf';
 import { apiNotFound, errorHandler } from './http/errors';
@@ -113,7 +114,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api', express.json({ limit: '100kb' }));
   app.use('/api', cookieParser());
   app.use('/api', createSessionMiddleware(config, dataSource));
-  app.use('/api', loadSignedInUser(config, dataSource));
+  app.use('/api', loadSignedInUser(config, sessionUserLoader(dataSource)));
   app.use('/api', csrfProtection({ secureCookies: config.http.secureCookies }));
 
   for (const component of serverComponents) {

@@ -5,6 +5,9 @@ import { Identity1764633600000 } from '../database/migrations/1764633600000-iden
 import { authRoutes } from './api/auth-routes';
 import { memberRoutes } from './api/member-routes';
 import { MembershipEntity, UserEntity, UserTokenEntity } from './data-access/entities';
+import type { DataSource } from 'typeorm';
+import { loadSessionUser } from './data-access/identity-repository';
+import { toAuthContext } from './domain/auth-context';
 import type { IdentityDeps } from './domain/deps';
 
 export { requestContext } from './api/auth-routes';
@@ -20,6 +23,17 @@ export type { IdentityDeps } from './domain/deps';
 export { hashPassword } from './domain/passwords';
 export { managesOrganisation } from './domain/policy';
 export { invitationLifetimeMs, newOneTimeToken } from './domain/tokens';
+
+/**
+ * The session's person loader for `http/session.ts`: the user with their memberships as an
+ * auth context, and whether the account is active; null for an unknown id.
+ */
+export function sessionUserLoader(dataSource: DataSource) {
+  return async (userId: number) => {
+    const loaded = await loadSessionUser(dataSource.manager, userId);
+    return loaded ? { auth: toAuthContext(loaded.user), active: loaded.active } : null;
+  };
+}
 
 /**
  * People, memberships, sign-in and invitations. Its first migration also created the

@@ -33,6 +33,8 @@ export {
   type TransitionContext,
 } from './domain/transitions';
 export { requestLoan } from './domain/booking';
+// The deposit columns belong to the loans table; payments writes them through these.
+export { setLoanDepositDueAt, setLoanDepositOutcome } from './data-access/loan-repository';
 export { canSeeLoan, getLoan, listLoans } from './domain/queries';
 
 /** Loans, their units, holds and events: tables, the state machine and `/api/loans`. */

@@ -1,5 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import type { LoanEvent, LoanState, Milestones } from '@evalon/contracts';
+import type { DepositStrategyName, LoanEvent, LoanState, Milestones } from '@evalon/contracts';
 import { likePattern } from '../../database/sql';
 import { LoanEntity, type LoanRow } from './entities';
 
@@ -175,13 +175,31 @@ export async function loanUnitShipDays(
   return rows;
 }
 
-/** Stores a loan's deposit deadline (set once, at approval). */
+/** Stores a loan's deposit deadline; set once (a stored deadline is never moved). */
 export async function setLoanDepositDueAt(
   m: EntityManager,
   loanId: number,
   due: Date,
 ): Promise<void> {
-  await m.query('UPDATE loans SET deposit_due_at = ? WHERE id = ?', [due, loanId]);
+  await m.query('UPDATE loans SET deposit_due_at = ? WHERE id = ? AND deposit_due_at IS NULL', [
+    due,
+    loanId,
+  ]);
+}
+
+/** Records how the deposit was secured on a loan the caller is confirming. */
+export async function setLoanDepositOutcome(
+  m: EntityManager,
+  loanId: number,
+  outcome: { strategy: DepositStrategyName; purchaseOrderNumber: string | null },
+  now: Date,
+): Promise<void> {
+  await m.query(
+    `UPDATE loans SET confirmed_at = ?, deposit_strategy = ?,
+            purchase_order_number = COALESCE(?, purchase_order_number)
+      WHERE id = ?`,
+    [now, outcome.strategy, outcome.purchaseOrderNumber, loanId],
+  );
 }
 
 /** Unit ids of a loan. */

@@ -1,6 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { DepositStrategyName } from '@evalon/contracts';
-import { applyLoanTransition } from '../../loans';
+import { applyLoanTransition, setLoanDepositDueAt, setLoanDepositOutcome } from '../../loans';
 import {
   findApprovalTime,
   findLoanDeposit,
@@ -11,8 +11,6 @@ import {
   insertPayment,
   insertPaymentEvent,
   insertRefund,
-  setDepositDueAt,
-  setLoanDepositOutcome,
   setPaymentEventOutcome,
   updatePayment,
   type LoanDepositRow,
@@ -83,7 +81,7 @@ export async function ensureDeadline(
   const units = await findLoanUnitDeposits(m, loan.id);
   if (!approvedAt || units.length === 0) return null;
   const due = depositDeadline(approvedAt, units, deps.config.depositWindowMs);
-  await setDepositDueAt(m, loan.id, due);
+  await setLoanDepositDueAt(m, loan.id, due);
   loan.depositDueAt = due;
   return due;
 }
