@@ -74,3 +74,18 @@ export async function getLoanPayments(
     caution: depositCaution,
   };
 }
+
+/**
+ * Refuses (404) a loan the person may not see, before anything else about the request is read:
+ * the scope check of the `/api/loans/:id/...` payment routes.
+ */
+export async function assertLoanVisible(
+  deps: Pick<PaymentsDeps, 'dataSource'>,
+  auth: AuthContext,
+  loanId: number,
+): Promise<void> {
+  const loan = await findLoanDeposit(deps.dataSource.manager, loanId);
+  if (!loan || !canSeeLoan(auth, loan)) {
+    throw AppError.notFound('loan_not_found', 'There is no such loan.');
+  }
+}
