@@ -3,7 +3,11 @@ import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import { pinoHttp } from 'pino-http';
 import type { DataSource } from 'typeorm';
-import { auditRoutes } from './audit/api/routes';
+import type { AppContext, AppServices } from './app-services';
+import { PlannerCache, SiteCache } from './availability';
+import { LenderSettingsCache, LocalPhotoStore } from './catalog';
+import { serverComponents } from './components';
+import { sessionUserLoader } from './identity';
 import type { Config } from './config';
 import { csrfProtection } from './http/csrf';
 import { apiNotFound, errorHandler } from './http/errors';
@@ -11,33 +15,12 @@ import type { CatalogueEntry } from './http/routes';
 import { securityHeaders } from './http/security';
 import { createSessionMiddleware, loadSignedInUser } from './http/session';
 import { mountWebApp } from './http/web-app';
-import { authRoutes } from './identity/api/auth-routes';
-import { memberRoutes } from './identity/api/member-routes';
-import type { IdentityDeps } from './identity/domain/deps';
+import type { NotifyLoanEvent } from './loans';
 import type { Logger } from './logger';
-import { adminOutboxRoutes, notificationRoutes } from './notifications/api/routes';
-import { loanNotifierFromConfig } from './notifications/loan-notifications';
-import type { Mailer } from './notifications/mailer';
-import { organisationRoutes, siteRoutes } from './organisations/api/routes';
-import { systemRoutes } from './system/api/routes';
-import { availabilityRoutes } from './availability/api/routes';
-import type { AvailabilityDeps } from './availability/domain/availability';
-import { PlannerCache } from './availability/domain/planner-cache';
-import { SiteCache } from './availability/domain/site-cache';
-import { lenderRoutes, modelRoutes, unitRoutes } from './catalog/api/routes';
-import type { CatalogDeps } from './catalog/domain/deps';
-import { photoStoreFromEnv, type PhotoStore } from './catalog/domain/photo-store';
-import { LenderSettingsCache } from './catalog/domain/shipping-settings';
-import { loanRoutes } from './loans/api/routes';
-import type { NotifyLoanEvent } from './loans/domain/notifications';
-import { mapsOptionsFromEnv, mapsRoutes, type MapsOptions } from './maps/api/routes';
-import {
-  createPaymentsDeps,
-  creditAgreementRoutes,
-  loanPaymentRoutes,
-  paymentWebhookRoutes,
-  type PaymentsClient,
-} from './payments';
+import { mapsOptionsFromConfig, type MapsOptions } from './maps';
+import { loanNotifierFromConfig, type Mailer } from './notifications';
+import { createPaymentsClient, LocalDocumentStore, type PaymentsClient } from './payments';
+import type { FileStore } from './storage/file-store';
 
 /** What the app is built from; `main.ts` makes the real ones, tests their own. */
 export interface AppDeps {
@@ -55,14 +38,14 @@ export interface AppDeps {
   now?: () => Date;
   /** Called inside every loan-changing transaction (default: the outbox's loan notifier). */
   notifyLoanEvent?: NotifyLoanEvent;
-  /** Where model photos live (default: `EVALON_UPLOAD_DIR`, a local folder). */
-  photoStore?: PhotoStore;
-  /** Maps script settings (default: `EVALON_MAPS_API_KEY` and the offline stand-in). */
+  /** Where model photos live (default: `config.storage.photoDir`, a local folder). */
+  photoStore?: FileStore;
+  /** Maps script settings (default: `config.maps` and the offline stand-in). */
   maps?: MapsOptions;
   /** The payment provider's SDK client (default: one made from `config.payments`). */
   paymentsClient?: PaymentsClient;
-  /** Where loan documents live (default: `EVALON_DOCUMENT_DIR`, a local folder). */
-  documentStore?: PhotoStore;
+  /** Where loan documents live (default: `config.storage.documentDir`, a local folder). */
+  documentStore?: FileStore;
 }
 
 const requestIdPattern = /^[A-Za-z0-9._-]{1,64}$/;
@@ -107,75 +90,36 @@ export function createApp(deps: AppDeps): Express {
   );
   app.use(securityHeaders(config));
 
-  const identityDeps: IdentityDeps = {
-    dataSource,
-    logger,
-    publicUrl: config.http.publicUrl,
-    now: deps.now ?? (() => new Date()),
+  const now = deps.now ?? (() => new Date());
+  // Made once here so that components meeting over a cache or store share one instance.
+  const services: AppServices = {
+    settingsCache: new LenderSettingsCache(),
+    plans: new PlannerCache(),
+    sites: new SiteCache(),
+    photoStore: deps.photoStore ?? new LocalPhotoStore(config.storage.photoDir),
+    documentStore: deps.documentStore ?? new LocalDocumentStore(config.storage.documentDir),
+    notifyLoanEvent: deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now }),
+    maps: deps.maps ?? mapsOptionsFromConfig(config),
+    paymentsClient: deps.paymentsClient ?? createPaymentsClient(config.payments),
   };
-
   const catalogue: CatalogueEntry[] = [];
-  const paymentsDeps = createPaymentsDeps({
-    config,
-    dataSource,
-    logger,
-    now: identityDeps.now,
-    provider: deps.paymentsClient,
-    documentStore: deps.documentStore,
-  });
-  // The payment provider's webhook needs its raw body (the signature covers the exact bytes) and
-  // no session or CSRF token: mounted before the JSON parser and the session.
-  const webhooks = paymentWebhookRoutes(paymentsDeps, catalogue);
-  app.use(webhooks.basePath, webhooks.router);
+  const ctx: AppContext = { config, dataSource, logger, now, catalogue, services };
+
+  // Routers that need the raw body (signed webhooks) and no session or CSRF token come first.
+  for (const component of serverComponents) {
+    for (const r of component.rawRouters?.(ctx) ?? []) app.use(r.basePath, r.router);
+  }
 
   // Everything under /api: JSON bodies, cookies, the session, the signed-in person, CSRF.
   app.use('/api', express.json({ limit: '100kb' }));
   app.use('/api', cookieParser());
   app.use('/api', createSessionMiddleware(config, dataSource));
-  app.use('/api', loadSignedInUser(config, dataSource));
+  app.use('/api', loadSignedInUser(config, sessionUserLoader(dataSource)));
   app.use('/api', csrfProtection({ secureCookies: config.http.secureCookies }));
 
-  const settingsCache = new LenderSettingsCache();
-  const catalogDeps: CatalogDeps = {
-    dataSource,
-    logger,
-    photoStore: deps.photoStore ?? photoStoreFromEnv(),
-    settingsCache,
-    now: identityDeps.now,
-  };
-  const availabilityDeps: AvailabilityDeps = {
-    dataSource,
-    logger,
-    settingsCache,
-    plans: new PlannerCache(),
-    sites: new SiteCache(),
-    now: identityDeps.now,
-  };
-  const loanDeps = {
-    ...availabilityDeps,
-    // Loan e-mails and in-app notifications, written in the loan's own transaction.
-    notifyLoanEvent:
-      deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now: identityDeps.now }),
-  };
-  const routers = [
-    systemRoutes(dataSource, config.http.publicUrl, catalogue),
-    authRoutes(config, identityDeps, catalogue),
-    organisationRoutes(dataSource, catalogue),
-    memberRoutes(identityDeps, catalogue),
-    siteRoutes(dataSource, catalogue),
-    auditRoutes(dataSource, catalogue),
-    adminOutboxRoutes(dataSource, identityDeps.now, catalogue),
-    notificationRoutes(dataSource, identityDeps.now, catalogue),
-    lenderRoutes(catalogDeps, catalogue),
-    ...modelRoutes(catalogDeps, catalogue),
-    unitRoutes(catalogDeps, catalogue),
-    availabilityRoutes(availabilityDeps, catalogue),
-    loanRoutes(loanDeps, catalogue),
-    ...mapsRoutes(deps.maps ?? mapsOptionsFromEnv(), catalogue),
-    loanPaymentRoutes(paymentsDeps, catalogue),
-    creditAgreementRoutes(paymentsDeps, catalogue),
-  ];
-  for (const r of routers) app.use(r.basePath, r.router);
+  for (const component of serverComponents) {
+    for (const r of component.routers?.(ctx) ?? []) app.use(r.basePath, r.router);
+  }
   app.use('/api', apiNotFound);
 
   mountWebApp(app, config.webDist, logger);

@@ -79,6 +79,11 @@ const envSchema = z.object({
   EVALON_GOOGLE_TOKEN_URL: url('http://127.0.0.1:8089/token'),
   EVALON_GOOGLE_USERINFO_URL: url('http://127.0.0.1:8089/userinfo'),
   EVALON_WEB_DIST: str('dist/web/browser'),
+  EVALON_ROOT: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_UPLOAD_DIR: str('.data/uploads'),
+  EVALON_DOCUMENT_DIR: str('.data/uploads/documents'),
+  EVALON_MAPS_API_KEY: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_MAPS_SCRIPT_URL: str('https://maps.googleapis.com/maps/api/js'),
   EVALON_OUTBOX_WORKER: z.preprocess(
     blankAsMissing,
     z.enum(['on', 'off'], { error: 'must be on or off' }).default('on'),
@@ -168,6 +173,21 @@ export interface Config {
   };
   /** Absolute path of the built Angular app (may not exist). */
   webDist: string;
+  /** The repository (or install) folder relative paths are read from: `EVALON_ROOT`, else the working directory. */
+  rootDir: string;
+  /** Where uploaded files live (absolute folders, outside the web root). */
+  storage: {
+    /** Model photos: `EVALON_UPLOAD_DIR`, default `.data/uploads`. */
+    photoDir: string;
+    /** Loan documents: `EVALON_DOCUMENT_DIR`, default `.data/uploads/documents`. */
+    documentDir: string;
+  };
+  /** The maps script: a browser key for the hosted loader, or null for the offline stand-in. */
+  maps: {
+    apiKey: string | null;
+    /** The hosted loader URL used when a key is set (`EVALON_MAPS_SCRIPT_URL`). */
+    hostedScriptUrl: string;
+  };
   /** The e-mail outbox worker (see docs/decisions/0003-outbox.md). */
   outbox: {
     /** Whether this process drains the outbox (several processes may). */
@@ -291,6 +311,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   if (problems.length) throw new ConfigError(problems);
 
   const publicUrl = e.EVALON_PUBLIC_URL.replace(/\/+$/, '');
+  const rootDir = e.EVALON_ROOT ?? process.cwd();
   const https = publicUrl.toLowerCase().startsWith('https://');
   return {
     env: e.NODE_ENV,
@@ -336,6 +357,12 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       userInfoUrl: e.EVALON_GOOGLE_USERINFO_URL,
     },
     webDist: path.resolve(process.cwd(), e.EVALON_WEB_DIST),
+    rootDir,
+    storage: {
+      photoDir: path.resolve(rootDir, e.EVALON_UPLOAD_DIR),
+      documentDir: path.resolve(rootDir, e.EVALON_DOCUMENT_DIR),
+    },
+    maps: { apiKey: e.EVALON_MAPS_API_KEY ?? null, hostedScriptUrl: e.EVALON_MAPS_SCRIPT_URL },
     outbox: {
       worker: e.EVALON_OUTBOX_WORKER === 'on',
       pollIntervalMs: e.EVALON_OUTBOX_POLL_MS,

@@ -5,9 +5,9 @@ import { ConfigError, loadConfig, type Config } from './config';
 import { createDataSource } from './database/data-source';
 import { sweepExpiredSessions } from './http/session';
 import { createLogger } from './logger';
-import { SmtpMailer } from './notifications/mailer';
-import { createOutboxWorker } from './notifications/outbox-worker';
-import { createPaymentsClient, createPaymentsDeps, startDepositExpiryJob } from './payments';
+import { serverComponents } from './components';
+import { SmtpMailer } from './notifications';
+import { createPaymentsClient } from './payments';
 
 const sessionSweepIntervalMs = 15 * 60_000;
 
@@ -43,26 +43,14 @@ async function main(): Promise<void> {
   // One SDK client per process, shared by the routes and the deposit expiry job.
   const paymentsClient = createPaymentsClient(config.payments);
   const app = createApp({ config, dataSource, mailer, logger, paymentsClient });
-  // Approved loans whose deposit deadline passed expire; any number of processes may run it.
-  const expiryJob = config.payments.expiryJob
-    ? startDepositExpiryJob(
-        createPaymentsDeps({ config, dataSource, logger, provider: paymentsClient }),
-        config.payments.expiryIntervalMs,
-      )
-    : null;
-  if (expiryJob) {
-    logger.info({ intervalMs: config.payments.expiryIntervalMs }, 'deposit expiry job started');
-  }
-  // The outbox worker sends what transactions enqueued; any number of processes may run one.
-  const outboxWorker = config.outbox.worker
-    ? createOutboxWorker(config, { dataSource, mailer, logger })
-    : null;
-  outboxWorker?.start();
-  if (outboxWorker) {
-    logger.info(
-      { worker: outboxWorker.id, smtp: `${config.smtp.host}:${config.smtp.port}` },
-      'outbox worker started',
-    );
+  // The components' background work (the outbox worker, the deposit expiry job, ...); any
+  // number of processes may run each.
+  const jobs = serverComponents.flatMap(
+    (c) => c.jobs?.({ config, dataSource, logger, mailer, paymentsClient }) ?? [],
+  );
+  for (const job of jobs) {
+    job.start();
+    logger.info(job.details, `${job.name} started`);
   }
   const server = app.listen(config.http.port, config.http.host);
   server.on('listening', () => {
@@ -89,32 +77,44 @@ async function main(): Promise<void> {
   sweeper.unref();
 
   let stopping = false;
-  const stop = (signal: string) => {
+  /** Stops taking requests, lets the jobs finish, closes the pool; exits with `exitCode`. */
+  const stop = (signal: string, exitCode = 0) => {
     if (stopping) return;
     stopping = true;
+    process.exitCode = exitCode;
     logger.info({ signal }, 'Evalon server stopping');
     clearInterval(sweeper);
-    // The worker finishes the message it is sending and hands the rest of its batch back, so
-    // nothing stays `sending` until its lease runs out.
-    const workerStopped = Promise.all([
-      outboxWorker?.stop() ?? Promise.resolve(),
-      expiryJob?.stop() ?? Promise.resolve(),
-    ]).catch((err: unknown) => logger.warn({ err }, 'background work did not stop cleanly'));
+    // Each job finishes the work in hand (the outbox worker hands the rest of its batch back, so
+    // nothing stays `sending` until its lease runs out).
+    const workerStopped = Promise.all(jobs.map((j) => j.stop())).catch((err: unknown) =>
+      logger.warn({ err }, 'background work did not stop cleanly'),
+    );
     server.close(() => {
       void workerStopped.then(() => {
         mailer.close();
         dataSource
           .destroy()
           .catch(() => undefined)
-          .finally(() => process.exit(0));
+          .finally(() => process.exit(exitCode));
       });
     });
     server.closeIdleConnections();
     // Busy keep-alive connections can hold close() open; do not wait for ever.
-    setTimeout(() => process.exit(0), 5_000).unref();
+    setTimeout(() => process.exit(exitCode), 5_000).unref();
   };
   process.on('SIGINT', () => stop('SIGINT'));
   process.on('SIGTERM', () => stop('SIGTERM'));
+  // A promise nobody awaited failed, or an exception escaped every handler: the process may be
+  // in a state no code planned for, so log what happened and stop the same clean way, with a
+  // failing exit code so a supervisor restarts it (rather than serve on half broken).
+  process.on('unhandledRejection', (reason: unknown) => {
+    logger.fatal({ err: reason }, 'unhandled promise rejection; stopping');
+    stop('unhandledRejection', 1);
+  });
+  process.on('uncaughtException', (error: Error) => {
+    logger.fatal({ err: error }, 'uncaught exception; stopping');
+    stop('uncaughtException', 1);
+  });
 }
 
 main().catch((error: unknown) => {

@@ -5,8 +5,8 @@ import {
   loanNotifierFromConfig,
   parseReceivingHours,
   type NotifyLoanEvent,
-} from '../src/notifications/loan-notifications';
-import { OutboxWorker } from '../src/notifications/outbox-worker';
+} from '../src/notifications/domain/loan-notifications';
+import { OutboxWorker } from '../src/notifications/domain/outbox-worker';
 import { createLogger } from '../src/logger';
 import { startTestApp, type TestApp } from './helpers/app';
 import { makeOrganisation, makePerson, unique, type TestPerson } from './helpers/factories';

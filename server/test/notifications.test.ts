@@ -1,5 +1,5 @@
 import request from 'supertest';
-import { notifyUsers, recipientsFor } from '../src/notifications/in-app';
+import { notifyUsers, recipientsFor } from '../src/notifications/domain/in-app';
 import { startTestApp, type TestApp } from './helpers/app';
 import { makeOrganisation, makePerson, makeSite, unique } from './helpers/factories';
 import { signedInClient } from './helpers/http';

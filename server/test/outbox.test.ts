@@ -1,9 +1,9 @@
 import type { DataSource } from 'typeorm';
 import { createDataSource } from '../src/database/data-source';
 import { createLogger } from '../src/logger';
-import type { MailMessage, Mailer } from '../src/notifications/mailer';
-import { enqueueEmail, type OutboxEmail } from '../src/notifications/outbox';
-import { OutboxWorker, type OutboxWorkerOptions } from '../src/notifications/outbox-worker';
+import type { MailMessage, Mailer } from '../src/notifications/domain/mailer';
+import { enqueueEmail, type OutboxEmail } from '../src/notifications/domain/outbox';
+import { OutboxWorker, type OutboxWorkerOptions } from '../src/notifications/domain/outbox-worker';
 import { startTestApp, type TestApp } from './helpers/app';
 import { jsonColumn, makeOrganisation, makePerson, unique } from './helpers/factories';
 import { signedInClient } from './helpers/http';

@@ -1,5 +1,5 @@
 import { loadConfig } from '../src/config';
-import { SmtpMailer } from '../src/notifications/mailer';
+import { SmtpMailer } from '../src/notifications/domain/mailer';
 import { startTestApp, type TestApp } from './helpers/app';
 import { makeOrganisation, makePerson } from './helpers/factories';
 import { anonymousClient, signedInClient } from './helpers/http';

@@ -4,7 +4,7 @@ import type { Loan } from '@evalon/contracts';
 import { loanConfirmed } from '@evalon/messages';
 import { loadConfig, type Config } from '../../server/src/config';
 import { createDataSource } from '../../server/src/database/data-source';
-import { enqueueEmail } from '../../server/src/notifications/outbox';
+import { enqueueEmail } from '../../server/src/notifications/domain/outbox';
 import { freePort, startNode, type Started } from '../../server/test/helpers/processes';
 
 // Reliability: the mail server goes away while loan confirmations are being written. Real parts

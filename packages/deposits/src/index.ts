@@ -2,6 +2,12 @@
  * @evalon/deposits: pure deposit computation (no I/O). Money is integer minor units plus an
  * ISO 4217 code. Computed deposits are estimates until the lender confirms the loan.
  */
+export {
+  defaultDepositWindowMs,
+  depositDeadline,
+  unitDepositDueBy,
+  type DeadlineUnit,
+} from './deadline';
 export { DepositError, type DepositErrorCode } from './errors';
 export { assertInteger, currencyExponent, formatMoney, toMinor, type Money } from './money';
 export { PROVIDER_MINIMUM_CHARGE, providerMinimumCharge } from './provider-minimums';

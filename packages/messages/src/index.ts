@@ -65,6 +65,15 @@ export {
   renderText,
 } from './layout';
 
+/** Account e-mails: invitation, added to an organisation, password reset. */
+export {
+  type AccountEmail,
+  addedToOrganisationEmail,
+  invitationEmail,
+  passwordResetEmail,
+  roleNames,
+} from './account';
+
 /** Escaping and link checks. */
 export { assertHttpUrl, escapeHtml, oneLine } from './escape';
 

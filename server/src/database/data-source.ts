@@ -1,62 +1,28 @@
-import { DataSource, type EntitySchema, type MigrationInterface } from 'typeorm';
+import { DataSource, type EntitySchema } from 'typeorm';
+import type { MigrationClass } from '../component';
+import { serverComponents } from '../components';
 import type { Config } from '../config';
-import { AuditEventEntity } from '../audit/data-access/entities';
-import { MembershipEntity, UserEntity, UserTokenEntity } from '../identity/data-access/entities';
-import { NotificationEntity, OutboxMessageEntity } from '../notifications/data-access/entities';
-import { OutboxCommitSubscriber } from '../notifications/outbox';
-import { OrganisationEntity, SiteEntity } from '../organisations/data-access/entities';
-import { Identity1764633600000 } from './migrations/1764633600000-identity';
-import { OutboxNotifications1764806400000 } from './migrations/1764806400000-outbox-notifications';
-import {
-  CompatibilityEntity,
-  LenderSettingsEntity,
-  ModelEntity,
-  PackingItemEntity,
-  PhotoEntity,
-  UnitEntity,
-} from '../catalog/data-access/entities';
-import {
-  HoldEntity,
-  LoanEntity,
-  LoanEventEntity,
-  LoanUnitEntity,
-} from '../loans/data-access/entities';
-import { Catalog1764720000000 } from './migrations/1764720000000-catalog';
-import { Loans1764720060000 } from './migrations/1764720060000-loans';
-import { HoldsHospital1764979200000 } from './migrations/1764979200000-holds-hospital';
-import { Payments1764892800000 } from './migrations/1764892800000-payments';
 
-/** Every entity, listed by hand because the server is bundled (no globbing at run time). */
-export const entities: EntitySchema<never>[] = [
-  OrganisationEntity,
-  SiteEntity,
-  UserEntity,
-  MembershipEntity,
-  UserTokenEntity,
-  AuditEventEntity,
-  OutboxMessageEntity,
-  NotificationEntity,
-  LenderSettingsEntity,
-  ModelEntity,
-  PackingItemEntity,
-  CompatibilityEntity,
-  PhotoEntity,
-  UnitEntity,
-  LoanEntity,
-  LoanUnitEntity,
-  HoldEntity,
-  LoanEventEntity,
-] as EntitySchema<never>[];
+/**
+ * Every entity, collected from the components' front doors (listed, not globbed: the server is
+ * bundled, so there are no entity files to find at run time).
+ */
+export const entities: EntitySchema[] = serverComponents.flatMap((c) => [...(c.entities ?? [])]);
 
-/** Every migration in order, listed by hand for the same reason. */
-export const migrations: (new () => MigrationInterface)[] = [
-  Identity1764633600000,
-  Catalog1764720000000,
-  Loans1764720060000,
-  OutboxNotifications1764806400000,
-  Payments1764892800000,
-  HoldsHospital1764979200000,
-];
+/** The timestamp TypeORM reads from a migration's name (its last 13 digits). */
+function timestampOf(m: MigrationClass): number {
+  const name = new m().name ?? m.name;
+  const match = /(\d{13})$/.exec(name);
+  if (!match) throw new Error(`migration ${name} does not end in a 13-digit timestamp`);
+  return Number(match[1]);
+}
+
+/** Every migration, collected from the components' front doors, oldest first. */
+export const migrations: MigrationClass[] = serverComponents
+  .flatMap((c) => [...(c.migrations ?? [])])
+  .sort((x, y) => timestampOf(x) - timestampOf(y));
+
+const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
 
 /** Tables the application owns (everything but TypeORM's `migrations`), children first. */
 export const appTables = [
@@ -105,8 +71,9 @@ export function createDataSource(db: Config['db']): DataSource {
     logging: false,
     entities,
     migrations,
-    // Wakes this process's outbox workers when a transaction that enqueued e-mail commits.
-    subscribers: [OutboxCommitSubscriber],
+    // E.g. the outbox's: wakes this process's workers when a transaction that enqueued e-mail
+    // commits.
+    subscribers,
     poolSize: db.poolSize,
     extra: { connectTimeout: 5_000 },
   });

@@ -20,7 +20,7 @@ async function main(): Promise<void> {
       );
       return;
     }
-    const summary = await loadDemoData(dataSource);
+    const summary = await loadDemoData(dataSource, new Date(), config.payments.depositWindowMs);
     console.log(
       `[evalon] demo data loaded into ${config.db.database}: ${summary.organisations} organisations, ` +
         `${summary.sites} sites, ${summary.people} people, ${summary.models} models, ${summary.units} units, ` +

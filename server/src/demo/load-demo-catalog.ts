@@ -1,22 +1,18 @@
 import type { DataSource } from 'typeorm';
 import { addCalendarDays, isoWeekday } from '@evalon/scheduling';
-import { PlannerCache } from '../availability/domain/planner-cache';
+import { PlannerCache } from '../availability';
 import {
   insertModel,
   insertUnit,
   replacePackingList,
-} from '../catalog/data-access/catalog-repository';
-import type { CatalogDeps } from '../catalog/domain/deps';
-import { LocalPhotoStore } from '../catalog/domain/photo-store';
-import { LenderSettingsCache } from '../catalog/domain/shipping-settings';
-import { addMaintenanceHold } from '../catalog/domain/units';
-import { toAuthContext, type AuthContext } from '../identity/domain/auth-context';
+  type CatalogDeps,
+  LocalPhotoStore,
+  LenderSettingsCache,
+  addMaintenanceHold,
+} from '../catalog';
+import { toAuthContext, type AuthContext, loadSessionUser } from '../identity';
+import { requestLoan, type LoanDeps, noLoanNotifications, transitionLoan } from '../loans';
 import { createLogger } from '../logger';
-import { loadSessionUser } from '../identity/data-access/identity-repository';
-import { requestLoan } from '../loans/domain/booking';
-import type { LoanDeps } from '../loans/domain/deps';
-import { noLoanNotifications } from '../loans/domain/notifications';
-import { transitionLoan } from '../loans/domain/transitions';
 import {
   demoCompatibility,
   demoLender,
@@ -68,6 +64,7 @@ async function siteIdByName(dataSource: DataSource, name: string): Promise<numbe
 export async function loadDemoCatalog(
   dataSource: DataSource,
   now: Date,
+  depositWindowMs: number,
 ): Promise<DemoCatalogSummary> {
   const summary: DemoCatalogSummary = { models: 0, units: 0, maintenanceHolds: 0, loans: 0 };
   const [lender] = (await dataSource.query('SELECT id FROM organisations WHERE name = ?', [
@@ -144,6 +141,7 @@ export async function loadDemoCatalog(
     plans: new PlannerCache(),
     now: () => now,
     notifyLoanEvent: noLoanNotifications,
+    depositWindowMs,
   };
   const today = now.toISOString().slice(0, 10);
   const fleet = await authOf(dataSource, demoLender.fleetManager);

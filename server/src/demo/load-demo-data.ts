@@ -1,18 +1,17 @@
+import { defaultDepositWindowMs } from '@evalon/deposits';
 import type { DataSource } from 'typeorm';
-import { insertAuditEvent } from '../audit/data-access/audit-repository';
-import { appTables } from '../database/data-source';
+import { insertAuditEvent } from '../audit';
 import {
   insertMembership,
   insertToken,
   insertUser,
   updateUser,
-} from '../identity/data-access/identity-repository';
-import { hashPassword } from '../identity/domain/passwords';
-import { invitationLifetimeMs, newOneTimeToken } from '../identity/domain/tokens';
-import {
-  insertOrganisation,
-  insertSite,
-} from '../organisations/data-access/organisation-repository';
+  hashPassword,
+  invitationLifetimeMs,
+  newOneTimeToken,
+} from '../identity';
+import { insertOrganisation, insertSite } from '../organisations';
+import { appTables } from '../database/data-source';
 import { demoOrganisations, demoPassword } from './demo-data';
 import { loadDemoCatalog, type DemoCatalogSummary } from './load-demo-catalog';
 
@@ -51,7 +50,11 @@ export interface DemoSummary extends DemoCatalogSummary {
  * clinician so the members pages look lived-in; then the lender's catalogue, maintenance and
  * loans dated from `now` (see load-demo-catalog.ts). Refuses a database that is not empty.
  */
-export async function loadDemoData(dataSource: DataSource, now = new Date()): Promise<DemoSummary> {
+export async function loadDemoData(
+  dataSource: DataSource,
+  now = new Date(),
+  depositWindowMs = defaultDepositWindowMs,
+): Promise<DemoSummary> {
   if (!(await isDatabaseEmpty(dataSource))) {
     throw new Error(
       'The database already holds organisations or people; demo data loads only into an empty one.',
@@ -147,6 +150,6 @@ export async function loadDemoData(dataSource: DataSource, now = new Date()): Pr
     });
   });
   // The catalogue and loans go through the product's own use cases, each in its transaction.
-  Object.assign(summary, await loadDemoCatalog(dataSource, now));
+  Object.assign(summary, await loadDemoCatalog(dataSource, now, depositWindowMs));
   return summary;
 }

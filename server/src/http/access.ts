@@ -1,8 +1,8 @@
 import type { Request, RequestHandler } from 'express';
 import type { Role } from '@evalon/contracts';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 import { notSignedInError } from './session';
-import type { AuthContext } from '../identity/domain/auth-context';
+import type { AuthContext } from '../identity';
 
 /** Where a route finds the organisation it acts on: a path parameter or a query parameter. */
 export type OrganisationSource = `param:${string}` | `query:${string}`;

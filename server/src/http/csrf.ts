@@ -1,6 +1,6 @@
 import { randomBytes, timingSafeEqual } from 'node:crypto';
 import type { Request, RequestHandler, Response } from 'express';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 
 /** Cookie the browser app reads (Angular's HttpClient default name). */
 export const csrfCookieName = 'XSRF-TOKEN';

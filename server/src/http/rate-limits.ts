@@ -1,7 +1,7 @@
 import type { Request, RequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import type { Config } from '../config';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 
 function minutesWords(ms: number): string {
   const minutes = Math.max(1, Math.round(ms / 60_000));

@@ -6,7 +6,7 @@ import {
   type Response,
 } from 'express';
 import type { z } from 'zod';
-import { access, type AccessRule } from './access';
+import { access, accessRuleOf, type AccessRule } from './access';
 import { validationError } from './errors';
 
 /** HTTP methods the API uses. */
@@ -37,8 +37,34 @@ export interface RouteSpec<
   params?: P;
   query?: Q;
   responses: Record<number, ResponseSpec>;
+  /**
+   * Loads the resource the path names and refuses (404) when the person may not see it, e.g.
+   * another organisation's loan. Runs after the access rule and the path/query checks and
+   * BEFORE the body is validated, so a stranger learns nothing from validation messages.
+   */
+  scope?: (req: Request, params: Out<P>) => Promise<void>;
   /** Middleware run after access and validation, before the handler (e.g. rate limits). */
   before?: RequestHandler[];
+}
+
+/**
+ * The steps every route runs, in this order: who may call it, which resource the path and query
+ * name (validated), whether that resource is theirs, then the body. Each middleware carries its
+ * step so the route walker test can check the order.
+ */
+export const routeSteps = ['access', 'address', 'scope', 'body'] as const;
+export type RouteStep = (typeof routeSteps)[number];
+const routeStepKey = 'routeStep';
+
+function step(name: RouteStep, handler: RequestHandler): RequestHandler {
+  return Object.assign(handler, { [routeStepKey]: name });
+}
+
+/** The step a route middleware carries, if any (read by the route walker test). */
+export function routeStepOf(handler: unknown): RouteStep | undefined {
+  if (typeof handler !== 'function') return undefined;
+  if (accessRuleOf(handler)) return 'access';
+  return (handler as { [routeStepKey]?: RouteStep })[routeStepKey];
 }
 
 /** A route as the OpenAPI generator sees it, with the full path. */
@@ -87,34 +113,49 @@ export class ApiRouter {
     spec: RouteSpec<B, P, Q>,
     handler: (input: RouteInput<Out<B>, Out<P>, Out<Q>>) => unknown,
   ): this {
-    const validate: RequestHandler = (req, res, next) => {
-      const parts: Record<'body' | 'params' | 'query', unknown> = {
-        body: undefined,
-        params: undefined,
-        query: undefined,
+    const parts: (req: Request, res: Response) => Record<'body' | 'params' | 'query', unknown> = (
+      _req,
+      res,
+    ) => (res.locals.validated ??= { body: undefined, params: undefined, query: undefined });
+    const validate =
+      (which: readonly ('body' | 'params' | 'query')[]): RequestHandler =>
+      (req, res, next) => {
+        const into = parts(req, res);
+        for (const part of which) {
+          const schema = spec[part];
+          if (!schema) continue;
+          const result = schema.safeParse(part === 'body' ? (req.body ?? {}) : req[part]);
+          if (!result.success) return next(validationError(part, result.error));
+          into[part] = result.data;
+        }
+        next();
       };
-      for (const part of ['params', 'query', 'body'] as const) {
-        const schema = spec[part];
-        if (!schema) continue;
-        const result = schema.safeParse(part === 'body' ? (req.body ?? {}) : req[part]);
-        if (!result.success) return next(validationError(part, result.error));
-        parts[part] = result.data;
-      }
-      res.locals.validated = parts;
-      next();
-    };
+    const scope = spec.scope;
+    const steps: RequestHandler[] = [
+      access(spec.access),
+      step('address', validate(['params', 'query'])),
+      ...(scope
+        ? [
+            step('scope', async (req, res, next) => {
+              await scope(req, parts(req, res).params as Out<P>);
+              next();
+            }),
+          ]
+        : []),
+      step('body', validate(['body'])),
+    ];
     const run: RequestHandler = async (req, res, next) => {
-      const parts = res.locals.validated as Record<'body' | 'params' | 'query', unknown>;
+      const valid = parts(req, res);
       await handler({
         req,
         res,
         next,
-        body: parts.body as Out<B>,
-        params: parts.params as Out<P>,
-        query: parts.query as Out<Q>,
+        body: valid.body as Out<B>,
+        params: valid.params as Out<P>,
+        query: valid.query as Out<Q>,
       });
     };
-    this.router[spec.method](spec.path, access(spec.access), validate, ...(spec.before ?? []), run);
+    this.router[spec.method](spec.path, ...steps, ...(spec.before ?? []), run);
     this.catalogue.push({
       method: spec.method,
       path: joinPath(this.basePath, spec.path),

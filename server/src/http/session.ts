@@ -3,10 +3,8 @@ import session from 'express-session';
 import createMySQLStore from 'express-mysql-session';
 import type { DataSource } from 'typeorm';
 import type { Config } from '../config';
-import { toAuthContext } from '../identity/domain/auth-context';
-import { loadSessionUser } from '../identity/data-access/identity-repository';
 import { csrfCookieName, newCsrfToken, writeCsrfCookie } from './csrf';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 
 /** Name of the session cookie. */
 export const sessionCookieName = 'evalon.sid';
@@ -96,13 +94,19 @@ export interface EndedSession {
   message: string;
 }
 
+/** The signed-in person behind a session, as the identity component loads them (or null). */
+export type SessionUserLoader = (
+  userId: number,
+) => Promise<{ auth: NonNullable<Request['auth']>; active: boolean } | null>;
+
 /**
- * Loads the signed-in person on every API request from the database, so a deactivation or a
+ * Loads the signed-in person on every API request (through `loadUser`, which `app.ts` takes
+ * from the identity component's front door), so a deactivation or a
  * role change takes effect at once. Sessions past the absolute timeout, or of people who have
  * been deactivated, are ended; the request goes on as anonymous and a protected route answers
  * 401 with the reason (see `access`), while public routes such as sign-in still work.
  */
-export function loadSignedInUser(config: Config, dataSource: DataSource): RequestHandler {
+export function loadSignedInUser(config: Config, loadUser: SessionUserLoader): RequestHandler {
   return async (req, res, next) => {
     const userId = req.session?.userId;
     if (userId === undefined) return next();
@@ -114,9 +118,9 @@ export function loadSignedInUser(config: Config, dataSource: DataSource): Reques
         message: 'Your session has ended. Sign in again to continue.',
       };
     } else {
-      const loaded = await loadSessionUser(dataSource.manager, userId);
+      const loaded = await loadUser(userId);
       if (loaded?.active) {
-        req.auth = toAuthContext(loaded.user);
+        req.auth = loaded.auth;
         return next();
       }
       ended = loaded

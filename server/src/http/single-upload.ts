@@ -1,6 +1,6 @@
 import type { RequestHandler } from 'express';
 import multer from 'multer';
-import { AppError } from './errors';
+import { AppError } from '../errors';
 
 /** What one upload route accepts and how it words its refusals. */
 export interface SingleUploadOptions {

@@ -1,16 +1,23 @@
+// The payments component's front door: other components, the app and main.ts use only what is
+// exported here.
 import type { DataSource } from 'typeorm';
+import type { AppComponent, AppServices } from '../app-services';
+import type { FileStore } from '../storage/file-store';
 import type { Config } from '../config';
-import type { PhotoStore } from '../catalog/domain/photo-store';
+import { Payments1764892800000 } from '../database/migrations/1764892800000-payments';
+import type { NotifyLoanEvent } from '../loans';
 import type { Logger } from '../logger';
-import { loanNotifierFromConfig, type NotifyLoanEvent } from '../notifications/loan-notifications';
+import { loanNotifierFromConfig } from '../notifications';
+import { creditAgreementRoutes, loanPaymentRoutes, paymentWebhookRoutes } from './api/routes';
 import type { PaymentsDeps } from './domain/deps';
-import { documentStoreFromEnv } from './domain/documents';
+import { LocalDocumentStore } from './domain/documents';
+import { startDepositExpiryJob } from './domain/expiry';
 import { createPaymentsClient, type PaymentsClient } from './domain/provider';
 
-export { creditAgreementRoutes, loanPaymentRoutes, paymentWebhookRoutes } from './api/routes';
 export { runDepositExpiry, startDepositExpiryJob, type ExpiryJob } from './domain/expiry';
 export { settleDeposit } from './domain/settlement';
 export { createPaymentsClient, type PaymentsClient } from './domain/provider';
+export { LocalDocumentStore } from './domain/documents';
 export type { PaymentsDeps } from './domain/deps';
 
 /**
@@ -23,7 +30,7 @@ export function createPaymentsDeps(input: {
   logger: Logger;
   now?: () => Date;
   provider?: PaymentsClient;
-  documentStore?: PhotoStore;
+  documentStore?: FileStore;
   notifyLoanEvent?: NotifyLoanEvent;
 }): PaymentsDeps {
   const now = input.now ?? (() => new Date());
@@ -34,7 +41,62 @@ export function createPaymentsDeps(input: {
     config: input.config.payments,
     publicUrl: input.config.http.publicUrl,
     notifyLoanEvent: input.notifyLoanEvent ?? loanNotifierFromConfig(input.config, { now }),
-    documentStore: input.documentStore ?? documentStoreFromEnv(),
+    documentStore: input.documentStore ?? new LocalDocumentStore(input.config.storage.documentDir),
     now,
   };
 }
+
+// One deps object per app, shared by the webhook router and the others.
+const depsOfApp = new WeakMap<AppServices, PaymentsDeps>();
+function depsOf(ctx: Parameters<NonNullable<AppComponent['routers']>>[0]): PaymentsDeps {
+  let deps = depsOfApp.get(ctx.services);
+  if (!deps) {
+    deps = createPaymentsDeps({
+      config: ctx.config,
+      dataSource: ctx.dataSource,
+      logger: ctx.logger,
+      now: ctx.now,
+      provider: ctx.services.paymentsClient,
+      documentStore: ctx.services.documentStore,
+      notifyLoanEvent: ctx.services.notifyLoanEvent,
+    });
+    depsOfApp.set(ctx.services, deps);
+  }
+  return deps;
+}
+
+/** Deposits (card or credit agreement), the provider's webhook, documents and the expiry job. */
+export const paymentsComponent: AppComponent = {
+  name: 'payments',
+  migrations: [Payments1764892800000],
+  // The provider's webhook needs its raw body (the signature covers the exact bytes) and no
+  // session or CSRF token.
+  rawRouters: (ctx) => [paymentWebhookRoutes(depsOf(ctx), ctx.catalogue)],
+  routers: (ctx) => [
+    loanPaymentRoutes(depsOf(ctx), ctx.catalogue),
+    creditAgreementRoutes(depsOf(ctx), ctx.catalogue),
+  ],
+  jobs: (ctx) => {
+    // Approved loans whose deposit deadline passed expire; any number of processes may run it.
+    if (!ctx.config.payments.expiryJob) return [];
+    const deps = createPaymentsDeps({
+      config: ctx.config,
+      dataSource: ctx.dataSource,
+      logger: ctx.logger,
+      provider: ctx.paymentsClient,
+    });
+    let job: ReturnType<typeof startDepositExpiryJob> | null = null;
+    return [
+      {
+        name: 'deposit expiry job',
+        details: { intervalMs: ctx.config.payments.expiryIntervalMs },
+        start: () => {
+          job = startDepositExpiryJob(deps, ctx.config.payments.expiryIntervalMs);
+        },
+        stop: async () => {
+          await job?.stop();
+        },
+      },
+    ];
+  },
+};

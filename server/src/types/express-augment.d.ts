@@ -1,4 +1,4 @@
-import type { AuthContext } from '../identity/domain/auth-context';
+import type { AuthContext } from '../identity';
 
 declare global {
   namespace Express {

@@ -4,8 +4,8 @@ import { createApp } from '../../src/app';
 import { loadConfig, type Config } from '../../src/config';
 import { createDataSource } from '../../src/database/data-source';
 import { createLogger } from '../../src/logger';
-import type { Mailer } from '../../src/notifications/mailer';
-import { createOutboxWorker, type OutboxWorker } from '../../src/notifications/outbox-worker';
+import type { Mailer } from '../../src/notifications/domain/mailer';
+import { createOutboxWorker, type OutboxWorker } from '../../src/notifications/domain/outbox-worker';
 import { RecordingMailer } from './recording-mailer';
 
 /** An app on this worker's database, with the pieces a test needs to look behind it. */

@@ -1,4 +1,4 @@
-import type { MailMessage, Mailer } from '../../src/notifications/mailer';
+import type { MailMessage, Mailer } from '../../src/notifications/domain/mailer';
 
 /**
  * A {@link Mailer} for tests that keeps what would have been sent, so a test can read the

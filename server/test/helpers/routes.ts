@@ -1,5 +1,6 @@
 import type { Express } from 'express';
 import { accessRuleOf, type AccessRule } from '../../src/http/access';
+import { routeStepOf, type RouteStep } from '../../src/http/routes';
 
 /** One route found in the Express router stack. */
 export interface FoundRoute {
@@ -52,5 +53,32 @@ export function listRoutes(app: Express): FoundRoute[] {
   };
   const router = (app as unknown as { router: { stack: Layer[] } }).router;
   walk(router.stack, '');
+  return found;
+}
+
+/** One route with the steps its middleware carries, in the order Express runs them. */
+export interface RouteSteps {
+  method: string;
+  path: string;
+  steps: (RouteStep | undefined)[];
+}
+
+/** Like {@link listRoutes}, with every handler's route step (access, address, scope, body). */
+export function listRouteSteps(app: Express): RouteSteps[] {
+  const found: RouteSteps[] = [];
+  const walk = (stack: Layer[], prefix: string) => {
+    for (const layer of stack) {
+      if (layer.route) {
+        const fullPath = join(prefix, pathText(layer.route.path));
+        const steps = layer.route.stack.map((h) => routeStepOf(h.handle));
+        for (const method of Object.keys(layer.route.methods)) {
+          found.push({ method: method.toUpperCase(), path: fullPath, steps });
+        }
+      } else if (Array.isArray(layer.handle?.stack)) {
+        walk(layer.handle.stack, join(prefix, pathText(layer.rawPath)));
+      }
+    }
+  };
+  walk((app as unknown as { router: { stack: Layer[] } }).router.stack, '');
   return found;
 }

@@ -29,4 +29,8 @@ export const AuditEventEntity = new EntitySchema<AuditEventRow>({
     detail: { type: 'json', nullable: true },
     requestId: { type: 'varchar', length: 64, name: 'request_id', nullable: true },
   },
+  indices: [
+    { name: 'ix_audit_events_actor', columns: ['actorUserId', 'id'] },
+    { name: 'ix_audit_events_organisation', columns: ['organisationId', 'id'] },
+  ],
 });

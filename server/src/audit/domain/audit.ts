@@ -1,8 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { AuditEvent, AuditQuery } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { managesOrganisation } from '../../identity/domain/policy';
+import { AppError } from '../../errors';
+import { type AuthContext, managesOrganisation } from '../../identity';
 import { findAuditEvents } from '../data-access/audit-repository';
 
 export { insertAuditEvent, type NewAuditEvent } from '../data-access/audit-repository';

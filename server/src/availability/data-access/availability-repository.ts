@@ -1,6 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { ModelCategory, UnitStatus } from '@evalon/contracts';
-import { likePattern } from '../../catalog/data-access/catalog-repository';
+import { likePattern } from '../../database/sql';
 
 /** A unit with its model and base depot: everything a footprint and a deposit need. */
 export interface CandidateUnit {

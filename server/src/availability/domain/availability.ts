@@ -11,18 +11,17 @@ import {
   type AvailabilityResponse,
 } from '@evalon/contracts';
 import { addCalendarDays, publicHolidays, toSiteDate, windowLengthDays } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   findSiteWithOrganisation,
   type SiteWithOrganisation,
-} from '../../catalog/data-access/catalog-repository';
-import { findHoldsForUnits, type HoldInterval } from '../../catalog/data-access/hold-repository';
-import { worksForHospital } from '../../catalog/domain/scope';
-import {
+  findHoldsForUnits,
+  type HoldInterval,
+  worksForHospital,
   toSchedulingSettings,
   type LenderSettingsCache,
-} from '../../catalog/domain/shipping-settings';
+} from '../../catalog';
 import {
   compatibleModelsOf,
   findCandidates,

@@ -4,8 +4,7 @@ import {
   type Milestones,
   type UnavailableReason,
 } from '@evalon/contracts';
-import type { HoldInterval } from '../../catalog/data-access/hold-repository';
-import { unitDeposit } from '../../catalog/domain/models';
+import { type HoldInterval, unitDeposit } from '../../catalog';
 import type { CandidateUnit } from '../data-access/availability-repository';
 import type { HospitalPlace, Plan, PlannerCache } from './planner-cache';
 import type { SchedulingSettings } from '@evalon/scheduling';

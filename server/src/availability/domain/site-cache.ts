@@ -1,8 +1,5 @@
 import type { EntityManager } from 'typeorm';
-import {
-  findSiteWithOrganisation,
-  type SiteWithOrganisation,
-} from '../../catalog/data-access/catalog-repository';
+import { findSiteWithOrganisation, type SiteWithOrganisation } from '../../catalog';
 
 /**
  * A short-lived, per-process cache of sites for the availability search, which looks up the

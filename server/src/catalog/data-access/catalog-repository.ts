@@ -1,4 +1,5 @@
 import type { EntityManager } from 'typeorm';
+import { likePattern } from '../../database/sql';
 import type {
   Depot,
   DepotInput,
@@ -11,7 +12,7 @@ import type {
   UnitStatus,
 } from '@evalon/contracts';
 import { pageSql } from '../../database/paging';
-import { SiteEntity } from '../../organisations/data-access/entities';
+import { SiteEntity } from '../../organisations';
 import {
   LenderSettingsEntity,
   ModelEntity,
@@ -22,11 +23,6 @@ import {
   type PhotoRow,
   type UnitRow,
 } from './entities';
-
-/** Escapes `%`, `_` and `\` for a LIKE pattern. */
-export function likePattern(text: string): string {
-  return `%${text.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-}
 
 /** mysql2 may return a JSON column as text or as parsed JSON. */
 function json<T>(value: unknown): T {

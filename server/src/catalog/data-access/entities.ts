@@ -1,13 +1,6 @@
-import { EntitySchema, type ValueTransformer } from 'typeorm';
+import { EntitySchema } from 'typeorm';
 import type { ModelCategory, UnitStatus } from '@evalon/contracts';
-import { idColumn, instantColumn, refColumn } from '../../database/columns';
-
-/** mysql2 hands BIGINT back as a string (TypeORM turns on bigNumberStrings); amounts fit a double. */
-export const bigintAsNumber: ValueTransformer = {
-  to: (value: number | null | undefined) => value,
-  from: (value: string | number | null) =>
-    value === null || value === undefined ? value : Number(value),
-};
+import { bigintAsNumber, idColumn, instantColumn, refColumn } from '../../database/columns';
 
 /** A row of `lender_settings`: one lender's shipping settings. */
 export interface LenderSettingsRow {
@@ -36,6 +29,24 @@ export const LenderSettingsEntity = new EntitySchema<LenderSettingsRow>({
     updatedAt: instantColumn('updated_at'),
     updatedByUserId: refColumn('updated_by_user_id', true),
   },
+  foreignKeys: [
+    {
+      name: 'fk_lender_settings_organisation',
+      target: 'Organisation',
+      columnNames: ['organisationId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_lender_settings_user',
+      target: 'User',
+      columnNames: ['updatedByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `models`. */
@@ -81,6 +92,20 @@ export const ModelEntity = new EntitySchema<ModelRow>({
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
+  indices: [
+    { name: 'ix_models_category', columns: ['category'] },
+    { name: 'uq_models_lender_name', columns: ['lenderId', 'name'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_models_lender',
+      target: 'Organisation',
+      columnNames: ['lenderId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `model_packing_items`. */
@@ -104,8 +129,19 @@ export const PackingItemEntity = new EntitySchema<PackingItemRow>({
     name: { type: 'varchar', length: 160 },
     gtin: { type: 'char', length: 14, nullable: true },
     quantity: { type: 'smallint', unsigned: true },
-    serialised: { type: 'boolean' },
+    serialised: { type: 'boolean', width: 1, default: false },
   },
+  indices: [{ name: 'ix_model_packing_items_model', columns: ['modelId', 'position'] }],
+  foreignKeys: [
+    {
+      name: 'fk_model_packing_items_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'CASCADE',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `model_compatibility` (stored in both directions). */
@@ -121,6 +157,25 @@ export const CompatibilityEntity = new EntitySchema<CompatibilityRow>({
     modelId: { type: 'int', unsigned: true, primary: true, name: 'model_id' },
     compatibleModelId: { type: 'int', unsigned: true, primary: true, name: 'compatible_model_id' },
   },
+  indices: [{ name: 'ix_model_compatibility_other', columns: ['compatibleModelId'] }],
+  foreignKeys: [
+    {
+      name: 'fk_model_compatibility_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'CASCADE',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_model_compatibility_other',
+      target: 'Model',
+      columnNames: ['compatibleModelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'CASCADE',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `model_photos`. */
@@ -147,6 +202,28 @@ export const PhotoEntity = new EntitySchema<PhotoRow>({
     createdAt: instantColumn('created_at'),
     createdByUserId: refColumn('created_by_user_id', true),
   },
+  indices: [
+    { name: 'ix_model_photos_model', columns: ['modelId'] },
+    { name: 'uq_model_photos_storage_key', columns: ['storageKey'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_model_photos_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_model_photos_user',
+      target: 'User',
+      columnNames: ['createdByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `units`. */
@@ -177,4 +254,27 @@ export const UnitEntity = new EntitySchema<UnitRow>({
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
+  indices: [
+    { name: 'ix_units_home_depot', columns: ['homeDepotId'] },
+    { name: 'ix_units_status_model', columns: ['status', 'modelId'] },
+    { name: 'uq_units_model_serial', columns: ['modelId', 'serialNumber'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_units_home_depot',
+      target: 'Site',
+      columnNames: ['homeDepotId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_units_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });

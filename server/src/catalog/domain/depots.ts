@@ -6,8 +6,8 @@ import type {
   ShippingSettingsResponse,
 } from '@evalon/contracts';
 import { publicHolidays } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   findDepot,
   findOrganisationKind,

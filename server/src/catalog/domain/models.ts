@@ -1,8 +1,8 @@
 import type { EntityManager } from 'typeorm';
 import type { Model, ModelInput, ModelPage, ModelQuery, Photo } from '@evalon/contracts';
 import { DepositError, depositForModel } from '@evalon/deposits';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   findModel,
   findModelsByIds,

@@ -1,6 +1,6 @@
 import type { Photo } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   countPhotos,
   deletePhoto,

@@ -1,5 +1,5 @@
 import type { Role } from '@evalon/contracts';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import type { AuthContext } from '../../identity';
 
 /**
  * Which organisations a person acts for, by role. Pure: the memberships come with the session,

@@ -10,8 +10,8 @@ import type {
   UnitUpdate,
 } from '@evalon/contracts';
 import { intervalsOverlap } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   bumpBookingVersion,
   countUnitsByStatus,

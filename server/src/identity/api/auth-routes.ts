@@ -26,7 +26,7 @@ import type { IdentityDeps, RequestContext } from '../domain/deps';
 import { acceptInvitation } from '../domain/members';
 import { signInWithPassword } from '../domain/sign-in';
 import { loadSessionUser } from '../data-access/identity-repository';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import { createGoogleHandlers } from './google';
 
 /** Audit facts from the request. */

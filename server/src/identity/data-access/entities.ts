@@ -28,13 +28,17 @@ export const UserEntity = new EntitySchema<UserRow>({
     email: { type: 'varchar', length: 254 },
     name: { type: 'varchar', length: 120 },
     passwordHash: { type: 'varchar', length: 255, name: 'password_hash', nullable: true },
-    active: { type: 'boolean', default: true },
+    active: { type: 'boolean', width: 1, default: true },
     timeZone: { type: 'varchar', length: 64, name: 'time_zone', nullable: true },
     googleSubject: { type: 'varchar', length: 255, name: 'google_subject', nullable: true },
     lastSignInAt: instantColumn('last_sign_in_at', true),
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
+  indices: [
+    { name: 'uq_users_email', columns: ['email'], unique: true },
+    { name: 'uq_users_google_subject', columns: ['googleSubject'], unique: true },
+  ],
 });
 
 /** A row of `memberships`: one role of one person in one organisation. */
@@ -56,6 +60,32 @@ export const MembershipEntity = new EntitySchema<MembershipRow>({
     role: { type: 'varchar', length: 32 },
     createdAt: instantColumn('created_at'),
   },
+  indices: [
+    { name: 'ix_memberships_organisation', columns: ['organisationId'] },
+    {
+      name: 'uq_memberships_user_org_role',
+      columns: ['userId', 'organisationId', 'role'],
+      unique: true,
+    },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_memberships_organisation',
+      target: 'Organisation',
+      columnNames: ['organisationId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_memberships_user',
+      target: 'User',
+      columnNames: ['userId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** What a one-time token is for. */
@@ -90,4 +120,34 @@ export const UserTokenEntity = new EntitySchema<UserTokenRow>({
     usedAt: instantColumn('used_at', true),
     createdAt: instantColumn('created_at'),
   },
+  indices: [
+    { name: 'ix_user_tokens_user', columns: ['userId', 'purpose'] },
+    { name: 'uq_user_tokens_hash', columns: ['tokenHash'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_user_tokens_created_by',
+      target: 'User',
+      columnNames: ['createdByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_user_tokens_organisation',
+      target: 'Organisation',
+      columnNames: ['organisationId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_user_tokens_user',
+      target: 'User',
+      columnNames: ['userId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });

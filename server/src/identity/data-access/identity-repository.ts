@@ -12,7 +12,7 @@ import {
   type Role,
   type SessionUser,
 } from '@evalon/contracts';
-import { likePattern } from '../../catalog/data-access/catalog-repository';
+import { likePattern } from '../../database/sql';
 import { pageSql } from '../../database/paging';
 import type { ManagingCandidate } from '../domain/policy';
 import {

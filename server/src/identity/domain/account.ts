@@ -4,10 +4,10 @@ import type {
   SessionUser,
   UpdateProfileRequest,
 } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
-import { AppError } from '../../http/errors';
-import { enqueueEmail } from '../../notifications/outbox';
-import { passwordResetEmail } from '../../notifications/templates';
+import { insertAuditEvent } from '../../audit';
+import { passwordResetEmail } from '@evalon/messages';
+import { enqueueEmail } from '../../notifications';
+import { AppError } from '../../errors';
 import {
   deleteSessionsOfUser,
   findUserByEmail,

@@ -8,11 +8,11 @@ import type {
   Role,
   SetPasswordRequest,
 } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
-import { AppError } from '../../http/errors';
-import { enqueueEmail } from '../../notifications/outbox';
-import { addedToOrganisationEmail, invitationEmail } from '../../notifications/templates';
-import { findOrganisation } from '../../organisations/data-access/organisation-repository';
+import { insertAuditEvent } from '../../audit';
+import { addedToOrganisationEmail, invitationEmail } from '@evalon/messages';
+import { enqueueEmail } from '../../notifications';
+import { findOrganisation } from '../../organisations';
+import { AppError } from '../../errors';
 import {
   deleteSessionsOfUser,
   findMembership,

@@ -1,6 +1,6 @@
 import type { LoginRequest, SignInRedirectError } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
+import { AppError } from '../../errors';
+import { insertAuditEvent } from '../../audit';
 import {
   findUserByEmail,
   findUserByGoogleSubject,

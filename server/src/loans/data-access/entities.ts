@@ -1,9 +1,12 @@
 import { EntitySchema } from 'typeorm';
-import type { LoanState } from '@evalon/contracts';
-import { idColumn, instantColumn, refColumn } from '../../database/columns';
-import { bigintAsNumber } from '../../catalog/data-access/entities';
-
-const dateColumn = (name: string) => ({ type: 'date' as const, name });
+import type { DepositStrategyName, LoanState } from '@evalon/contracts';
+import {
+  bigintAsNumber,
+  dateColumn,
+  idColumn,
+  instantColumn,
+  refColumn,
+} from '../../database/columns';
 
 /** A row of `loans`. Dates are `YYYY-MM-DD` in the hospital site's zone (`siteTimeZone`). */
 export interface LoanRow {
@@ -24,6 +27,12 @@ export interface LoanRow {
   readyAgain: string;
   depositAmount: number;
   depositCurrency: string;
+  /** The deadline to secure the deposit, stored at approval (null before, or for old rows). */
+  depositDueAt: Date | null;
+  /** How the deposit was secured, once it was. */
+  depositStrategy: DepositStrategyName | null;
+  purchaseOrderNumber: string | null;
+  confirmedAt: Date | null;
   note: string | null;
   requestedByUserId: number;
   createdAt: Date;
@@ -55,11 +64,61 @@ export const LoanEntity = new EntitySchema<LoanRow>({
       transformer: bigintAsNumber,
     },
     depositCurrency: { type: 'char', length: 3, name: 'deposit_currency' },
+    depositDueAt: instantColumn('deposit_due_at', true),
+    depositStrategy: { type: 'varchar', length: 32, name: 'deposit_strategy', nullable: true },
+    purchaseOrderNumber: {
+      type: 'varchar',
+      length: 64,
+      name: 'purchase_order_number',
+      nullable: true,
+    },
+    confirmedAt: instantColumn('confirmed_at', true),
     note: { type: 'text', nullable: true },
     requestedByUserId: refColumn('requested_by_user_id'),
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
+  indices: [
+    { name: 'ix_loans_hospital_state', columns: ['hospitalId', 'state'] },
+    { name: 'ix_loans_lender_state', columns: ['lenderId', 'state'] },
+    { name: 'ix_loans_state', columns: ['state'] },
+    { name: 'ix_loans_state_deposit_due', columns: ['state', 'depositDueAt'] },
+    { name: 'uq_loans_reference', columns: ['reference'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_loans_hospital',
+      target: 'Organisation',
+      columnNames: ['hospitalId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loans_lender',
+      target: 'Organisation',
+      columnNames: ['lenderId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loans_requested_by',
+      target: 'User',
+      columnNames: ['requestedByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loans_site',
+      target: 'Site',
+      columnNames: ['siteId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `loan_units`: one unit of a loan with its own milestones (depot dates in its zone). */
@@ -104,6 +163,44 @@ export const LoanUnitEntity = new EntitySchema<LoanUnitRow>({
       transformer: bigintAsNumber,
     },
   },
+  indices: [
+    { name: 'ix_loan_units_hospital_model', columns: ['hospitalId', 'modelId'] },
+    { name: 'ix_loan_units_unit', columns: ['unitId'] },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_loan_units_depot',
+      target: 'Site',
+      columnNames: ['depotId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loan_units_loan',
+      target: 'Loan',
+      columnNames: ['loanId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loan_units_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loan_units_unit',
+      target: 'Unit',
+      columnNames: ['unitId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `holds`: a blocked interval of a unit, both ends included, depot calendar. */
@@ -139,6 +236,45 @@ export const HoldEntity = new EntitySchema<HoldRow>({
     createdAt: instantColumn('created_at'),
     createdByUserId: refColumn('created_by_user_id', true),
   },
+  indices: [
+    { name: 'ix_holds_loan', columns: ['loanId'] },
+    { name: 'ix_holds_unit_end', columns: ['unitId', 'endDate', 'startDate'] },
+    { name: 'uq_holds_unit_sequence', columns: ['unitId', 'sequence'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_holds_hospital',
+      target: 'Organisation',
+      columnNames: ['hospitalId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_holds_loan',
+      target: 'Loan',
+      columnNames: ['loanId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_holds_unit',
+      target: 'Unit',
+      columnNames: ['unitId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_holds_user',
+      target: 'User',
+      columnNames: ['createdByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `loan_events`: one state change of a loan, with who, when and why. */
@@ -164,4 +300,23 @@ export const LoanEventEntity = new EntitySchema<LoanEventRow>({
     toState: { type: 'varchar', length: 16, name: 'to_state' },
     reason: { type: 'text', nullable: true },
   },
+  indices: [{ name: 'ix_loan_events_loan', columns: ['loanId', 'id'] }],
+  foreignKeys: [
+    {
+      name: 'fk_loan_events_actor',
+      target: 'User',
+      columnNames: ['actorUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_loan_events_loan',
+      target: 'Loan',
+      columnNames: ['loanId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });

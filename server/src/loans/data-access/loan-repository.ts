@@ -1,14 +1,15 @@
 import type { EntityManager } from 'typeorm';
 import {
   loanStates,
+  type DepositStrategyName,
   type LoanEvent,
   type LoanSortField,
   type LoanState,
   type Milestones,
   type PageQuery,
 } from '@evalon/contracts';
-import { likePattern } from '../../catalog/data-access/catalog-repository';
 import { pageSql } from '../../database/paging';
+import { likePattern } from '../../database/sql';
 import { LoanEntity, type LoanRow } from './entities';
 
 /** A new loan's fields. */
@@ -168,6 +169,46 @@ export async function updateLoanState(
   now: Date,
 ): Promise<void> {
   await m.query('UPDATE loans SET state = ?, updated_at = ? WHERE id = ?', [state, now, id]);
+}
+
+/** Each unit's ship-by day and depot zone, which bound the deposit deadline. */
+export async function loanUnitShipDays(
+  m: EntityManager,
+  loanId: number,
+): Promise<{ shipBy: string; depotTimeZone: string }[]> {
+  const rows: { shipBy: string; depotTimeZone: string }[] = await m.query(
+    `SELECT DATE_FORMAT(ship_by, '%Y-%m-%d') AS shipBy, depot_time_zone AS depotTimeZone
+       FROM loan_units WHERE loan_id = ? ORDER BY unit_id`,
+    [loanId],
+  );
+  return rows;
+}
+
+/** Stores a loan's deposit deadline; set once (a stored deadline is never moved). */
+export async function setLoanDepositDueAt(
+  m: EntityManager,
+  loanId: number,
+  due: Date,
+): Promise<void> {
+  await m.query('UPDATE loans SET deposit_due_at = ? WHERE id = ? AND deposit_due_at IS NULL', [
+    due,
+    loanId,
+  ]);
+}
+
+/** Records how the deposit was secured on a loan the caller is confirming. */
+export async function setLoanDepositOutcome(
+  m: EntityManager,
+  loanId: number,
+  outcome: { strategy: DepositStrategyName; purchaseOrderNumber: string | null },
+  now: Date,
+): Promise<void> {
+  await m.query(
+    `UPDATE loans SET confirmed_at = ?, deposit_strategy = ?,
+            purchase_order_number = COALESCE(?, purchase_order_number)
+      WHERE id = ?`,
+    [now, outcome.strategy, outcome.purchaseOrderNumber, loanId],
+  );
 }
 
 /** Unit ids of a loan. */

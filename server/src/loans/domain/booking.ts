@@ -10,32 +10,29 @@ import {
 } from '@evalon/contracts';
 import { DepositError, depositForLoan } from '@evalon/deposits';
 import { intervalsOverlap, type DateInterval } from '@evalon/scheduling';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { lockUnits } from '../../catalog/data-access/catalog-repository';
-import { findHoldsForUnits, insertHolds } from '../../catalog/data-access/hold-repository';
-import { isBuyerOf } from '../../catalog/domain/scope';
-import { toSchedulingSettings } from '../../catalog/domain/shipping-settings';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
+import {
+  lockUnits,
+  findHoldsForUnits,
+  insertHolds,
+  isBuyerOf,
+  toSchedulingSettings,
+} from '../../catalog';
 import {
   findCandidates,
   type CandidateUnit,
-} from '../../availability/data-access/availability-repository';
-import {
   alternativesFor,
   checkUseWindow,
   evaluateForWindow,
   holdsByUnit,
   resolveCampus,
   type Campus,
-} from '../../availability/domain/availability';
-import {
-  bumpBookingVersions,
-  insertLoan,
-  insertLoanEvent,
-  insertLoanUnits,
-} from '../data-access/loan-repository';
+} from '../../availability';
+import { bumpBookingVersions, insertLoan, insertLoanUnits } from '../data-access/loan-repository';
 import type { LoanDeps } from './deps';
 import { toLoan } from './queries';
+import { applyLoanTransition } from './transitions';
 
 /** A unit that blocks the request, decided under the lock. */
 interface Blocked {
@@ -253,12 +250,14 @@ async function bookInTransaction(
     // Only possible if something wrote holds without the lock: refuse rather than double-book.
     throw AppError.conflict('unit_changed', 'A unit changed meanwhile; search again and retry.');
   }
-  await insertLoanEvent(
+  await applyLoanTransition(
     m,
-    { loanId, actorUserId: auth.user.id, fromState: null, toState: 'requested', reason: null },
-    now,
+    { id: loanId, state: null },
+    'request',
+    { userId: auth.user.id },
+    null,
+    { now, notifyLoanEvent: deps.notifyLoanEvent, depositWindowMs: deps.depositWindowMs },
   );
-  await deps.notifyLoanEvent(m, { loanId, event: 'requested', actorUserId: auth.user.id });
 
   const loan = toLoan(
     auth,

@@ -1,14 +1,14 @@
 import type { EntityManager } from 'typeorm';
 import type { Loan, LoanPage, LoanQuery, LoanState } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   isBuyerOf,
   isFleetManagerOf,
   organisationsWithRole,
   worksForHospital,
   worksForLender,
-} from '../../catalog/domain/scope';
+} from '../../catalog';
 import {
   countLoansByState,
   findLoanEvents,

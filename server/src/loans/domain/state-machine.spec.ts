@@ -1,5 +1,13 @@
 import { loanStates, type LoanState } from '@evalon/contracts';
-import { allowedActions, planTransition, releasesHolds, transitions } from './state-machine';
+import {
+  allowedActions,
+  loanTransitionActions,
+  loanTransitionTable,
+  planTransition,
+  releasesHolds,
+  transitions,
+  type LoanTransitionAction,
+} from './state-machine';
 
 // The table of product.md ("loan states"): requested → approved | declined by the lender,
 // requested | approved → cancelled by the hospital; declined and cancelled give up the holds.
@@ -88,5 +96,50 @@ describe('loan state machine', () => {
     expect(allowedActions('cancelled', { lenderFleetManager: true, hospitalBuyer: true })).toEqual(
       [],
     );
+  });
+});
+
+// The whole table: product flow of a loan from request to close (our own state machine; the
+// shipment steps are taken by the shipments component once it exists).
+describe('loan transition table', () => {
+  it('walks a loan from request to closed, one step at a time', () => {
+    const path: [LoanTransitionAction, LoanState][] = [
+      ['request', 'requested'],
+      ['approve', 'approved'],
+      ['confirm', 'confirmed'],
+      ['ship', 'shipped'],
+      ['deliver', 'delivered'],
+      ['start_return', 'returning'],
+      ['receive_return', 'returned'],
+      ['close', 'closed'],
+    ];
+    let state: LoanState | null = null;
+    for (const [action, to] of path) {
+      const plan = planTransition(state, action);
+      expect(plan).toEqual({ ok: true, from: state, to, releasesHolds: false });
+      state = to;
+    }
+  });
+
+  it('refuses every step out of order and names the state', () => {
+    for (const action of loanTransitionActions) {
+      const rule = loanTransitionTable[action];
+      for (const state of [null, ...loanStates]) {
+        const plan = planTransition(state, action, 'a reason');
+        expect(plan.ok).toBe(rule.from.includes(state));
+        if (!plan.ok) expect(plan.message).toContain(state ?? 'not yet created');
+      }
+    }
+  });
+
+  it('lets the deposit steps end an approved loan only', () => {
+    expect(planTransition('approved', 'expire')).toMatchObject({ ok: true, releasesHolds: true });
+    expect(planTransition('requested', 'confirm')).toMatchObject({ code: 'illegal_transition' });
+    expect(planTransition('confirmed', 'expire')).toMatchObject({ code: 'illegal_transition' });
+  });
+
+  it('offers only approve, decline and cancel as buttons', () => {
+    const buttons = loanTransitionActions.filter((a) => loanTransitionTable[a].button !== null);
+    expect(buttons).toEqual(['approve', 'decline', 'cancel']);
   });
 });

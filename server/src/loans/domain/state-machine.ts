@@ -1,23 +1,130 @@
 import { loanStateLabels, type LoanAction, type LoanState, type Role } from '@evalon/contracts';
+import type { LoanNotificationEvent } from './notifications';
 
 /**
- * The loan state machine for the steps this part of Evalon handles, pure so it can be tested
- * without a database:
+ * Every step a loan can take, as one table, pure so it can be tested without a database. Each
+ * component that moves a loan names a step here and calls the loans front door's
+ * `applyLoanTransition`; nothing else writes a loan's state.
  *
- * | action  | from                  | to        | who                      | reason   |
- * | ------- | --------------------- | --------- | ------------------------ | -------- |
- * | approve | requested             | approved  | fleet manager of lender  | optional |
- * | decline | requested             | declined  | fleet manager of lender  | required |
- * | cancel  | requested, approved   | cancelled | buyer of the hospital    | required |
- * | confirm | approved              | confirmed | system (verified payment) or buyer with an active credit agreement | none |
- * | expire  | approved              | expired   | system (deposit deadline passed) | none |
+ * | action         | from                | to        | taken by                                       | reason   |
+ * | -------------- | ------------------- | --------- | ---------------------------------------------- | -------- |
+ * | request        | (new loan)          | requested | buyer of the hospital (booking)                | none     |
+ * | approve        | requested           | approved  | fleet manager of lender                        | optional |
+ * | decline        | requested           | declined  | fleet manager of lender                        | required |
+ * | cancel         | requested, approved | cancelled | buyer of the hospital                          | required |
+ * | confirm        | approved            | confirmed | payments: a verified payment, or a buyer with an active credit agreement | none |
+ * | expire         | approved            | expired   | payments' expiry job (deposit deadline passed) | none     |
+ * | ship           | confirmed           | shipped   | shipments (not built yet)                      | none     |
+ * | deliver        | shipped             | delivered | shipments                                      | none     |
+ * | start_return   | delivered           | returning | shipments                                      | none     |
+ * | receive_return | returning           | returned  | shipments                                      | none     |
+ * | close          | returned            | closed    | shipments                                      | none     |
  *
- * Declined, cancelled and expired loans release their holds. `confirm` and `expire` belong to the
- * deposit flow (payments component): they are in {@link depositTransitions}, not offered as
- * buttons by {@link allowedActions}; the later states (shipped, ...) belong to the shipment flow.
+ * Declined, cancelled and expired loans release their holds. Only approve, decline and cancel are
+ * offered as buttons ({@link allowedActions}); the other steps belong to the component named.
  */
+export const loanTransitionActions = [
+  'request',
+  'approve',
+  'decline',
+  'cancel',
+  'confirm',
+  'expire',
+  'ship',
+  'deliver',
+  'start_return',
+  'receive_return',
+  'close',
+] as const;
+export type LoanTransitionAction = (typeof loanTransitionActions)[number];
+
+/** One row of {@link loanTransitionTable}. */
+export interface TransitionRule {
+  /** States the action may start from; `null` is a loan being created. */
+  from: readonly (LoanState | null)[];
+  to: LoanState;
+  /** Whether a reason must be given (it is recorded in the loan's events). */
+  reasonRequired: boolean;
+  /** The notice sent to the notifications port after the step; null: nobody is told (yet). */
+  notice: LoanNotificationEvent | null;
+  /**
+   * Who may take the step as a button on the loan page: the role in the loan's lender or
+   * hospital. Null for steps that a component takes (booking, payments, shipments).
+   */
+  button: { role: Extract<Role, 'fleet_manager' | 'buyer'>; side: 'lender' | 'hospital' } | null;
+}
+
+/** The table of allowed loan transitions (see the module comment). */
+export const loanTransitionTable: Readonly<Record<LoanTransitionAction, TransitionRule>> = {
+  request: {
+    from: [null],
+    to: 'requested',
+    reasonRequired: false,
+    notice: 'requested',
+    button: null,
+  },
+  approve: {
+    from: ['requested'],
+    to: 'approved',
+    reasonRequired: false,
+    notice: 'approved',
+    button: { role: 'fleet_manager', side: 'lender' },
+  },
+  decline: {
+    from: ['requested'],
+    to: 'declined',
+    reasonRequired: true,
+    notice: 'declined',
+    button: { role: 'fleet_manager', side: 'lender' },
+  },
+  cancel: {
+    from: ['requested', 'approved'],
+    to: 'cancelled',
+    reasonRequired: true,
+    notice: 'cancelled',
+    button: { role: 'buyer', side: 'hospital' },
+  },
+  confirm: {
+    from: ['approved'],
+    to: 'confirmed',
+    reasonRequired: false,
+    notice: 'confirmed',
+    button: null,
+  },
+  expire: {
+    from: ['approved'],
+    to: 'expired',
+    reasonRequired: false,
+    notice: 'expired',
+    button: null,
+  },
+  ship: { from: ['confirmed'], to: 'shipped', reasonRequired: false, notice: null, button: null },
+  deliver: {
+    from: ['shipped'],
+    to: 'delivered',
+    reasonRequired: false,
+    notice: null,
+    button: null,
+  },
+  start_return: {
+    from: ['delivered'],
+    to: 'returning',
+    reasonRequired: false,
+    notice: null,
+    button: null,
+  },
+  receive_return: {
+    from: ['returning'],
+    to: 'returned',
+    reasonRequired: false,
+    notice: null,
+    button: null,
+  },
+  close: { from: ['returned'], to: 'closed', reasonRequired: false, notice: null, button: null },
+};
+
+/** A step offered as a button: its rule with the role and side that may press it. */
 export interface Transition {
-  /** States the action may start from. */
   from: readonly LoanState[];
   to: LoanState;
   /** The role that may take the action, in the loan's lender or hospital. */
@@ -27,28 +134,23 @@ export interface Transition {
   reasonRequired: boolean;
 }
 
+function buttonTransition(action: LoanAction): Transition {
+  const rule = loanTransitionTable[action];
+  if (!rule.button) throw new Error(`loan action ${action} is not a button`);
+  return {
+    from: rule.from.filter((s): s is LoanState => s !== null),
+    to: rule.to,
+    role: rule.button.role,
+    side: rule.button.side,
+    reasonRequired: rule.reasonRequired,
+  };
+}
+
+/** The button steps (approve, decline, cancel), read from {@link loanTransitionTable}. */
 export const transitions: Readonly<Record<LoanAction, Transition>> = {
-  approve: {
-    from: ['requested'],
-    to: 'approved',
-    role: 'fleet_manager',
-    side: 'lender',
-    reasonRequired: false,
-  },
-  decline: {
-    from: ['requested'],
-    to: 'declined',
-    role: 'fleet_manager',
-    side: 'lender',
-    reasonRequired: true,
-  },
-  cancel: {
-    from: ['requested', 'approved'],
-    to: 'cancelled',
-    role: 'buyer',
-    side: 'hospital',
-    reasonRequired: true,
-  },
+  approve: buttonTransition('approve'),
+  decline: buttonTransition('decline'),
+  cancel: buttonTransition('cancel'),
 };
 
 /** States whose loans no longer block their units. */
@@ -59,52 +161,46 @@ export function releasesHolds(state: LoanState): boolean {
   return releasedStates.includes(state);
 }
 
-/** Steps of the deposit flow: taken by the payments component, never offered as buttons. */
-export type DepositAction = 'confirm' | 'expire';
-
-/**
- * The deposit flow's transitions. Who may take them is decided by the payments component: the
- * system after a verified payment (webhook or reconciliation) or a buyer of the hospital under an
- * active credit agreement (`confirm`), the expiry job (`expire`).
- */
-export const depositTransitions: Readonly<
-  Record<DepositAction, Pick<Transition, 'from' | 'to' | 'reasonRequired'>>
-> = {
-  confirm: { from: ['approved'], to: 'confirmed', reasonRequired: false },
-  expire: { from: ['approved'], to: 'expired', reasonRequired: false },
-};
-
-const actionWords: Record<LoanAction | DepositAction, string> = {
+const actionWords: Record<LoanTransitionAction, string> = {
+  request: 'requested',
   approve: 'approved',
   decline: 'declined',
   cancel: 'cancelled',
   confirm: 'confirmed',
   expire: 'expired',
+  ship: 'shipped',
+  deliver: 'marked delivered',
+  start_return: 'sent back',
+  receive_return: 'received back',
+  close: 'closed',
 };
 
 /** The outcome of {@link planTransition}. */
 export type TransitionPlan =
-  | { ok: true; from: LoanState; to: LoanState; releasesHolds: boolean }
+  | { ok: true; from: LoanState | null; to: LoanState; releasesHolds: boolean }
   | { ok: false; code: 'illegal_transition' | 'reason_required'; message: string };
 
+const stateWords = (s: LoanState | null) =>
+  s === null ? 'not yet created' : `“${loanStateLabels[s]}” (${s})`;
+
 /**
- * Whether `action` may move a loan in `state`, and where to. Refusals name the current state so
- * the person sees why (e.g. a loan that is already approved cannot be approved again).
+ * Whether `action` may move a loan in `state` (null: a loan being created), and where to.
+ * Refusals name the current state so the person sees why (e.g. a loan that is already approved
+ * cannot be approved again).
  */
 export function planTransition(
-  state: LoanState,
-  action: LoanAction | DepositAction,
+  state: LoanState | null,
+  action: LoanTransitionAction,
   reason?: string | null,
 ): TransitionPlan {
-  const t =
-    action === 'confirm' || action === 'expire' ? depositTransitions[action] : transitions[action];
+  const t = loanTransitionTable[action];
   if (!t.from.includes(state)) {
-    const allowed = t.from.map((s) => `“${loanStateLabels[s]}” (${s})`).join(' or ');
+    const allowed = t.from.map(stateWords).join(' or ');
     return {
       ok: false,
       code: 'illegal_transition',
       message:
-        `This loan is “${loanStateLabels[state]}” (${state}), so it cannot be ` +
+        `This loan is ${stateWords(state)}, so it cannot be ` +
         `${actionWords[action]}; only a loan that is ${allowed} can.`,
     };
   }

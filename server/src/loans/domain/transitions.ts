@@ -1,33 +1,106 @@
-import type { Loan, LoanAction } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { lockUnits } from '../../catalog/data-access/catalog-repository';
-import { deleteLoanHolds } from '../../catalog/data-access/hold-repository';
-import { isBuyerOf, isFleetManagerOf } from '../../catalog/domain/scope';
+import type { EntityManager } from 'typeorm';
+import type { Loan, LoanAction, LoanState } from '@evalon/contracts';
+import { depositDeadline } from '@evalon/deposits';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
+import { lockUnits, deleteLoanHolds, isBuyerOf, isFleetManagerOf } from '../../catalog';
 import {
   bumpBookingVersions,
   insertLoanEvent,
   loanUnitIds,
   lockLoan,
+  loanUnitShipDays,
+  setLoanDepositDueAt,
   updateLoanState,
 } from '../data-access/loan-repository';
 import type { LoanDeps } from './deps';
-import type { LoanNotificationEvent } from './notifications';
+import type { NotifyLoanEvent } from './notifications';
 import { canSeeLoan, getLoan } from './queries';
-import { planTransition, transitions } from './state-machine';
+import {
+  loanTransitionTable,
+  planTransition,
+  transitions,
+  type LoanTransitionAction,
+} from './state-machine';
 
-const noticeOf: Record<LoanAction, LoanNotificationEvent> = {
-  approve: 'approved',
-  decline: 'declined',
-  cancel: 'cancelled',
-};
+/** Who takes a step: a person, or the system (null: a verified payment, the expiry job). */
+export interface LoanActor {
+  userId: number | null;
+}
+
+/** What {@link applyLoanTransition} needs besides the loan. */
+export interface TransitionContext {
+  now: Date;
+  notifyLoanEvent: NotifyLoanEvent;
+  /** How long a buyer has to secure the deposit after approval (`EVALON_DEPOSIT_WINDOW_HOURS`). */
+  depositWindowMs: number;
+}
+
+/**
+ * The one way to change a loan's state, for every component: checks `action` against the state
+ * machine's table (409 `illegal_transition` naming the state, 422 `reason_required`), releases
+ * the units' holds when the new state gives them up (units locked in ascending id order, after
+ * the loan), writes the state and the loan event, and tells the notification port, all with the
+ * caller's manager. The caller has locked the loan row (or just inserted it, for `request`) and
+ * checked who may take the step.
+ *
+ * @returns The states moved between.
+ */
+export async function applyLoanTransition(
+  m: EntityManager,
+  loan: { id: number; state: LoanState | null },
+  action: LoanTransitionAction,
+  actor: LoanActor,
+  reason: string | null,
+  ctx: TransitionContext,
+): Promise<{ from: LoanState | null; to: LoanState }> {
+  const plan = planTransition(loan.state, action, reason);
+  if (!plan.ok) {
+    if (plan.code === 'reason_required') throw AppError.field(plan.code, 'reason', plan.message);
+    throw AppError.conflict(plan.code, plan.message, { state: loan.state });
+  }
+  const why = reason?.trim() || null;
+  if (plan.releasesHolds) {
+    const locked = await lockUnits(m, await loanUnitIds(m, loan.id));
+    await deleteLoanHolds(m, loan.id);
+    await bumpBookingVersions(m, locked);
+  }
+  // A new loan is inserted in its first state; the step records its event and notice.
+  if (plan.from !== null) await updateLoanState(m, loan.id, plan.to, ctx.now);
+  if (plan.to === 'approved') {
+    // The deposit deadline is fixed once, here, by the @evalon/deposits rule; the approval
+    // e-mail, the deposit page and the expiry job all read the stored instant.
+    const due = depositDeadline(ctx.now, await loanUnitShipDays(m, loan.id), ctx.depositWindowMs);
+    await setLoanDepositDueAt(m, loan.id, due);
+  }
+  await insertLoanEvent(
+    m,
+    {
+      loanId: loan.id,
+      actorUserId: actor.userId,
+      fromState: plan.from,
+      toState: plan.to,
+      reason: why,
+    },
+    ctx.now,
+  );
+  const notice = loanTransitionTable[action].notice;
+  if (notice) {
+    await ctx.notifyLoanEvent(m, {
+      loanId: loan.id,
+      event: notice,
+      ...(actor.userId === null ? {} : { actorUserId: actor.userId }),
+      ...(why === null ? {} : { reason: why }),
+    });
+  }
+  return { from: plan.from, to: plan.to };
+}
 
 /**
  * Approves, declines or cancels a loan under its row lock: 404 when the person may not see the
  * loan, 403 when they may see it but the action is the other side's (or needs another role),
- * 409 when the loan's state does not allow it (the message names the state). Declining and
- * cancelling release the units' holds (units locked in ascending id order, after the loan). The
- * change, its event and the notification hook's writes commit together.
+ * 409 when the loan's state does not allow it (the message names the state). The change, its
+ * event, the released holds and the notification hook's writes commit together.
  */
 export async function transitionLoan(
   deps: LoanDeps,
@@ -54,34 +127,10 @@ export async function transitionLoan(
           : 'Only buyers of the hospital can cancel this loan.',
       );
     }
-    const plan = planTransition(loan.state, action, reason);
-    if (!plan.ok) {
-      if (plan.code === 'reason_required') throw AppError.field(plan.code, 'reason', plan.message);
-      throw AppError.conflict(plan.code, plan.message, { state: loan.state });
-    }
-    const now = deps.now();
-    if (plan.releasesHolds) {
-      const locked = await lockUnits(m, await loanUnitIds(m, loanId));
-      await deleteLoanHolds(m, loanId);
-      await bumpBookingVersions(m, locked);
-    }
-    await updateLoanState(m, loanId, plan.to, now);
-    await insertLoanEvent(
-      m,
-      {
-        loanId,
-        actorUserId: auth.user.id,
-        fromState: plan.from,
-        toState: plan.to,
-        reason: reason?.trim() || null,
-      },
-      now,
-    );
-    await deps.notifyLoanEvent(m, {
-      loanId,
-      event: noticeOf[action],
-      actorUserId: auth.user.id,
-      reason: reason?.trim() || null,
+    await applyLoanTransition(m, loan, action, { userId: auth.user.id }, reason, {
+      now: deps.now(),
+      notifyLoanEvent: deps.notifyLoanEvent,
+      depositWindowMs: deps.depositWindowMs,
     });
   });
   return getLoan(deps.dataSource.manager, auth, loanId);

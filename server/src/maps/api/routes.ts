@@ -1,6 +1,7 @@
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { mapsConfig } from '@evalon/contracts';
+import type { Config } from '../../config';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 
 /** How the web app gets its maps script. */
@@ -22,22 +23,21 @@ export const defaultHostedScriptUrl = 'https://maps.googleapis.com/maps/api/js';
  * bundler leaves the import alone: the module finds its sources next to itself and must not be
  * bundled into server/dist.
  */
-export function repositoryStandin(env: NodeJS.ProcessEnv = process.env): () => Promise<string> {
+export function repositoryStandin(where: { EVALON_ROOT?: string } = {}): () => Promise<string> {
   return async () => {
-    const root = env.EVALON_ROOT?.trim() || process.cwd();
+    const root = where.EVALON_ROOT?.trim() || process.cwd();
     const entry = pathToFileURL(path.resolve(root, 'infra/fakes/maps/index.mjs')).href;
     const mod = (await import(entry)) as { mapsStandinPath: () => Promise<string> };
     return mod.mapsStandinPath();
   };
 }
 
-/** Maps settings from the environment: `EVALON_MAPS_API_KEY`, `EVALON_MAPS_SCRIPT_URL`. */
-export function mapsOptionsFromEnv(env: NodeJS.ProcessEnv = process.env): MapsOptions {
-  const key = env.EVALON_MAPS_API_KEY?.trim();
+/** Maps settings from the server configuration (`EVALON_MAPS_API_KEY`, `EVALON_MAPS_SCRIPT_URL`). */
+export function mapsOptionsFromConfig(config: Pick<Config, 'maps' | 'rootDir'>): MapsOptions {
   return {
-    apiKey: key ? key : null,
-    hostedScriptUrl: env.EVALON_MAPS_SCRIPT_URL?.trim() || defaultHostedScriptUrl,
-    standinPath: repositoryStandin(env),
+    apiKey: config.maps.apiKey,
+    hostedScriptUrl: config.maps.hostedScriptUrl,
+    standinPath: repositoryStandin({ EVALON_ROOT: config.rootDir }),
   };
 }
 

@@ -13,9 +13,9 @@ import {
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
-import { requestContext } from '../../identity/api/auth-routes';
+import { requestContext } from '../../identity';
 import { listOutbox, resendOutboxMessage } from '../domain/outbox-admin';
-import { listNotifications, readAllNotifications, readNotification } from '../in-app';
+import { listNotifications, readAllNotifications, readNotification } from '../domain/in-app';
 
 const error = (description: string) => ({ description, schema: errorBody });
 

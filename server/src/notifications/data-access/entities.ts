@@ -44,7 +44,7 @@ export const OutboxMessageEntity = new EntitySchema<OutboxMessageRow>({
   columns: {
     id: idColumn,
     messageId: { type: 'char', length: 36, name: 'message_id' },
-    kind: { type: 'varchar', length: 16 },
+    kind: { type: 'varchar', length: 16, default: 'email' },
     to: { type: 'json', name: 'to_addresses' },
     cc: { type: 'json', name: 'cc_addresses', nullable: true },
     subject: { type: 'varchar', length: 998 },
@@ -52,8 +52,8 @@ export const OutboxMessageEntity = new EntitySchema<OutboxMessageRow>({
     text: { type: 'mediumtext' },
     attachments: { type: 'json', nullable: true },
     headers: { type: 'json', nullable: true },
-    status: { type: 'varchar', length: 16 },
-    attempts: { type: 'smallint', unsigned: true },
+    status: { type: 'varchar', length: 16, default: 'pending' },
+    attempts: { type: 'smallint', unsigned: true, default: 0 },
     nextAttemptAt: instantColumn('next_attempt_at'),
     lastError: { type: 'varchar', length: 2000, name: 'last_error', nullable: true },
     createdAt: instantColumn('created_at'),
@@ -62,6 +62,12 @@ export const OutboxMessageEntity = new EntitySchema<OutboxMessageRow>({
     lockedUntil: instantColumn('locked_until', true),
     dedupeKey: { type: 'varchar', length: 190, name: 'dedupe_key', nullable: true },
   },
+  indices: [
+    { name: 'ix_outbox_messages_due', columns: ['status', 'nextAttemptAt', 'id'] },
+    { name: 'ix_outbox_messages_lease', columns: ['status', 'lockedUntil'] },
+    { name: 'uq_outbox_messages_dedupe_key', columns: ['dedupeKey'], unique: true },
+    { name: 'uq_outbox_messages_message_id', columns: ['messageId'], unique: true },
+  ],
 });
 
 /** A row of `notifications`: one in-app message for one person. */
@@ -94,4 +100,18 @@ export const NotificationEntity = new EntitySchema<NotificationRow>({
     readAt: instantColumn('read_at', true),
     dedupeKey: { type: 'varchar', length: 190, name: 'dedupe_key', nullable: true },
   },
+  indices: [
+    { name: 'ix_notifications_user_unread', columns: ['userId', 'readAt', 'id'] },
+    { name: 'uq_notifications_user_dedupe', columns: ['userId', 'dedupeKey'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_notifications_user',
+      target: 'User',
+      columnNames: ['userId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });

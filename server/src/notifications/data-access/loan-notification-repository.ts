@@ -70,6 +70,7 @@ interface LoanQueryRow {
   depositAmount: number | string;
   depositCurrency: string;
   note: string | null;
+  depositDueAt: Date | string | null;
   requestedBy: string;
   createdAt: Date;
 }
@@ -102,8 +103,8 @@ const day = (column: string, alias: string) => `DATE_FORMAT(${column}, '%Y-%m-%d
  * loans component is making. Written against the loans migration 1764720060000; if the loans
  * component gains a loader of its own for the `Loan` contract, pass that instead.
  *
- * Not stored by the loans tables yet, so: `depositDueBy` is null (the notifier then estimates
- * it), the invite SEQUENCE is 0 (no flow changes a confirmed loan's dates yet).
+ * `depositDueBy` is the deadline stored at approval (`loans.deposit_due_at`); the invite SEQUENCE
+ * is 0 (no flow changes a confirmed loan's dates yet).
  */
 export const sqlLoanNotificationLoader: LoanNotificationLoader = {
   async load(m, loanId) {
@@ -119,6 +120,7 @@ export const sqlLoanNotificationLoader: LoanNotificationLoader = {
               ${day('l.return_ship_by', 'returnShipBy')}, ${day('l.back_at_depot', 'backAtDepot')},
               ${day('l.ready_again', 'readyAgain')},
               l.deposit_amount AS depositAmount, l.deposit_currency AS depositCurrency, l.note,
+              l.deposit_due_at AS depositDueAt,
               u.name AS requestedBy, l.created_at AS createdAt
          FROM loans l
          JOIN organisations h ON h.id = l.hospital_id
@@ -203,7 +205,7 @@ export const sqlLoanNotificationLoader: LoanNotificationLoader = {
         .join('\n'),
       receivingHours: parseReceivingHours(row.receivingHours),
       lenderTimeZone: units[0]?.depotTimeZone ?? row.siteTimeZone,
-      depositDueBy: null,
+      depositDueBy: row.depositDueAt ? new Date(row.depositDueAt) : null,
       approvedAt: approval ? new Date(approval.at) : null,
       invite: { sequence: 0, sent: events.some((e) => e.toState === 'confirmed') },
       expiry:

@@ -1,15 +1,15 @@
 import type { DataSource } from 'typeorm';
 import type { OutboxMessage, OutboxQuery } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/data-access/audit-repository';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { insertAuditEvent } from '../../audit';
+import type { AuthContext } from '../../identity';
+import { AppError } from '../../errors';
 import {
   findOutboxMessages,
   findOutboxRow,
   requeueParked,
   toOutboxMessage,
 } from '../data-access/outbox-repository';
-import { nudgeAfterCommit } from '../outbox';
+import { nudgeAfterCommit } from './outbox';
 
 /** Outbox messages of one status for the platform admin (access is checked by the route). */
 export function listOutbox(dataSource: DataSource, query: OutboxQuery): Promise<OutboxMessage[]> {

@@ -22,6 +22,7 @@ export const OrganisationEntity = new EntitySchema<OrganisationRow>({
     country: { type: 'char', length: 2 },
     createdAt: instantColumn('created_at'),
   },
+  indices: [{ name: 'uq_organisations_name', columns: ['name'], unique: true }],
 });
 
 /** A row of `sites`: a hospital campus or a lender depot. */
@@ -66,4 +67,18 @@ export const SiteEntity = new EntitySchema<SiteRow>({
     cutoffTime: { type: 'char', length: 5, name: 'cutoff_time', nullable: true },
     createdAt: instantColumn('created_at'),
   },
+  indices: [
+    { name: 'ix_sites_kind', columns: ['kind'] },
+    { name: 'ix_sites_organisation', columns: ['organisationId'] },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_sites_organisation',
+      target: 'Organisation',
+      columnNames: ['organisationId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });

@@ -1,7 +1,7 @@
 import type { DataSource } from 'typeorm';
 import type { Organisation, Site } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
 import {
   findOrganisation,
   listOrganisations,

@@ -20,13 +20,14 @@ import {
   maxLoanDocumentBytes,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
-import { AppError, validationError } from '../../http/errors';
+import { AppError } from '../../errors';
+import { validationError } from '../../http/errors';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import { setCreditAgreement, listCreditAgreements } from '../domain/credit-agreements';
 import { refreshDeposit, startDeposit } from '../domain/deposit';
 import type { PaymentsDeps } from '../domain/deps';
 import { listLoanDocuments, readLoanDocument, uploadLoanDocument } from '../domain/documents';
-import { getLoanPayments } from '../domain/queries';
+import { assertLoanVisible, getLoanPayments } from '../domain/queries';
 import { handleWebhookEvent, verifyWebhook } from '../domain/webhooks';
 
 const error = (description: string) => ({ description, schema: errorBody });
@@ -108,6 +109,7 @@ export function loanPaymentRoutes(deps: PaymentsDeps, catalogue: CatalogueEntry[
         '`/loans/<id>?deposit=success&session=<id>` or `?deposit=cancelled`.',
       access: { roles: ['buyer'] },
       params: loanParams,
+      scope: (req, params) => assertLoanVisible(deps, currentAuth(req), params.id),
       body: depositRequest,
       responses: {
         200: { description: 'Checkout page, or confirmed.', schema: depositResponse },
@@ -137,6 +139,7 @@ export function loanPaymentRoutes(deps: PaymentsDeps, catalogue: CatalogueEntry[
         'the buyer returns to shows the loan confirmed even when the webhook is late.',
       access: { roles: ['buyer', 'clinician', 'fleet_manager', 'coordinator', 'admin'] },
       params: loanParams,
+      scope: (req, params) => assertLoanVisible(deps, currentAuth(req), params.id),
       body: depositRefreshRequest,
       responses: {
         200: { description: 'The loan’s payments after the check.', schema: loanPayments },

@@ -138,14 +138,6 @@ export async function findApprovalTime(m: EntityManager, loanId: number): Promis
   return rows[0]?.at ? new Date(rows[0].at) : null;
 }
 
-/** Sets the deposit deadline unless one is set already (it is computed the same way anyway). */
-export async function setDepositDueAt(m: EntityManager, loanId: number, due: Date): Promise<void> {
-  await m.query('UPDATE loans SET deposit_due_at = ? WHERE id = ? AND deposit_due_at IS NULL', [
-    due,
-    loanId,
-  ]);
-}
-
 /** Approved loans without a deadline yet (approved before the payments component knew them). */
 export async function findApprovedWithoutDeadline(
   m: EntityManager,
@@ -170,21 +162,6 @@ export async function findOverdueLoans(
     [now, limit],
   );
   return rows.map((r) => Number(r.id));
-}
-
-/** Records how the deposit was secured on a loan the caller is confirming. */
-export async function setLoanDepositOutcome(
-  m: EntityManager,
-  loanId: number,
-  outcome: { strategy: DepositStrategyName; purchaseOrderNumber: string | null },
-  now: Date,
-): Promise<void> {
-  await m.query(
-    `UPDATE loans SET confirmed_at = ?, deposit_strategy = ?,
-            purchase_order_number = COALESCE(?, purchase_order_number)
-      WHERE id = ?`,
-    [now, outcome.strategy, outcome.purchaseOrderNumber, loanId],
-  );
 }
 
 /** A row of `payments`. */

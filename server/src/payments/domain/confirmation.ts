@@ -1,8 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import type { DepositStrategyName } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import { insertLoanEvent, updateLoanState } from '../../loans/data-access/loan-repository';
-import { planTransition } from '../../loans/domain/state-machine';
+import { applyLoanTransition, setLoanDepositDueAt, setLoanDepositOutcome } from '../../loans';
 import {
   findApprovalTime,
   findLoanDeposit,
@@ -13,8 +11,6 @@ import {
   insertPayment,
   insertPaymentEvent,
   insertRefund,
-  setDepositDueAt,
-  setLoanDepositOutcome,
   setPaymentEventOutcome,
   updatePayment,
   type LoanDepositRow,
@@ -43,41 +39,29 @@ export interface ConfirmationCause {
 }
 
 /**
- * Moves a locked, approved loan to `confirmed` with the loans state machine's `confirm` step:
- * state, deposit outcome, event, and the confirmation e-mails (with the calendar invite) and
- * in-app notifications, all with the caller's manager, i.e. in the caller's transaction.
+ * Moves a locked, approved loan to `confirmed` through the loans front door's `confirm` step:
+ * deposit outcome, state, event, and the confirmation e-mails (with the calendar invite) and
+ * in-app notifications, all with the caller's manager, i.e. in the caller's transaction. A loan
+ * in another state is refused with 409 `illegal_transition` (and the transaction rolls back).
  */
 export async function confirmLoan(
   m: EntityManager,
-  deps: Pick<PaymentsDeps, 'notifyLoanEvent' | 'now'>,
+  deps: Pick<PaymentsDeps, 'notifyLoanEvent' | 'now' | 'config'>,
   loan: LoanDepositRow,
   cause: ConfirmationCause,
 ): Promise<void> {
-  const plan = planTransition(loan.state, 'confirm');
-  if (!plan.ok) throw AppError.conflict(plan.code, plan.message, { state: loan.state });
   const now = deps.now();
-  await updateLoanState(m, loan.id, plan.to, now);
+  // The deposit outcome first: the confirmation e-mail written by the step reads it.
   await setLoanDepositOutcome(
     m,
     loan.id,
     { strategy: cause.strategy, purchaseOrderNumber: cause.purchaseOrderNumber },
     now,
   );
-  await insertLoanEvent(
-    m,
-    {
-      loanId: loan.id,
-      actorUserId: cause.actorUserId,
-      fromState: plan.from,
-      toState: plan.to,
-      reason: cause.reason,
-    },
+  await applyLoanTransition(m, loan, 'confirm', { userId: cause.actorUserId }, cause.reason, {
     now,
-  );
-  await deps.notifyLoanEvent(m, {
-    loanId: loan.id,
-    event: 'confirmed',
-    ...(cause.actorUserId === null ? {} : { actorUserId: cause.actorUserId }),
+    notifyLoanEvent: deps.notifyLoanEvent,
+    depositWindowMs: deps.config.depositWindowMs,
   });
 }
 
@@ -97,7 +81,7 @@ export async function ensureDeadline(
   const units = await findLoanUnitDeposits(m, loan.id);
   if (!approvedAt || units.length === 0) return null;
   const due = depositDeadline(approvedAt, units, deps.config.depositWindowMs);
-  await setDepositDueAt(m, loan.id, due);
+  await setLoanDepositDueAt(m, loan.id, due);
   loan.depositDueAt = due;
   return due;
 }

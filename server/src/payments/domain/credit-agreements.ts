@@ -1,8 +1,8 @@
 import type { CreditAgreement } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/domain/audit';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { findOrganisation } from '../../organisations/data-access/organisation-repository';
+import { insertAuditEvent } from '../../audit';
+import type { AuthContext } from '../../identity';
+import { findOrganisation } from '../../organisations';
+import { AppError } from '../../errors';
 import {
   findCreditAgreement,
   findCreditAgreements,

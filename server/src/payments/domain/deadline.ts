@@ -1,6 +1,5 @@
 import { DateTime } from 'luxon';
 import { chooseStrategy, type DepositStrategy } from '@evalon/deposits';
-import { defaultDepositDueBy } from '../../notifications/loan-notifications';
 
 /** One unit's depot calendar days that bound the deposit: when it ships and is ready again. */
 export interface UnitFootprintDays {
@@ -44,25 +43,5 @@ export function cardStrategy(units: readonly UnitFootprintDays[], now: Date): De
   return chooseStrategy({ footprintStart: start, footprintEnd: end, now });
 }
 
-/**
- * The deadline to secure the deposit: `windowMs` after the approval, but never later than the
- * start of any unit's ship-by day in its depot's zone, and never before the approval itself.
- *
- * Why the start of the ship-by day rather than the depot's cut-off time on that day: the
- * coordinator must know on the morning of the ship day whether to pack, and the approval e-mail
- * (notifications' `defaultDepositDueBy`) promises exactly this rule; per unit it is that
- * function, so the stored deadline and the e-mailed one agree. A product default, not a rule
- * from any source.
- */
-export function depositDeadline(
-  approvedAt: Date,
-  units: readonly Pick<UnitFootprintDays, 'shipBy' | 'depotTimeZone'>[],
-  windowMs: number,
-): Date {
-  let due = new Date(approvedAt.getTime() + windowMs);
-  for (const u of units) {
-    const d = defaultDepositDueBy(approvedAt, u.shipBy, u.depotTimeZone, windowMs);
-    if (d < due) due = d;
-  }
-  return due;
-}
+/** The deposit deadline rule, from @evalon/deposits (computed once there for every caller). */
+export { depositDeadline } from '@evalon/deposits';

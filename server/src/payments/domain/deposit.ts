@@ -1,11 +1,10 @@
 import { DepositError, depositForLoan, type DepositStrategy } from '@evalon/deposits';
 import type { DepositRequest, DepositResponse } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/domain/audit';
-import { isBuyerOf } from '../../catalog/domain/scope';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { canSeeLoan } from '../../loans/domain/queries';
-import { planTransition } from '../../loans/domain/state-machine';
+import { insertAuditEvent } from '../../audit';
+import { isBuyerOf } from '../../catalog';
+import type { AuthContext } from '../../identity';
+import { canSeeLoan, planTransition } from '../../loans';
+import { AppError } from '../../errors';
 import { findActiveCreditAgreement } from '../data-access/credit-agreement-repository';
 import {
   findLoanDeposit,

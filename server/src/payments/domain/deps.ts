@@ -1,8 +1,8 @@
 import type { DataSource } from 'typeorm';
 import type { PaymentsConfig } from '../../config';
-import type { PhotoStore } from '../../catalog/domain/photo-store';
+import type { FileStore } from '../../storage/file-store';
+import type { NotifyLoanEvent } from '../../loans';
 import type { Logger } from '../../logger';
-import type { NotifyLoanEvent } from '../../notifications/loan-notifications';
 import type { PaymentsClient } from './provider';
 
 /** What the payments use cases need. */
@@ -20,6 +20,6 @@ export interface PaymentsDeps {
    */
   notifyLoanEvent: NotifyLoanEvent;
   /** Where loan documents live: the uploads storage interface, with PDF keys. */
-  documentStore: PhotoStore;
+  documentStore: FileStore;
   now: () => Date;
 }

@@ -1,17 +1,16 @@
-import { createHash, randomBytes } from 'node:crypto';
-import fs from 'node:fs/promises';
+import { createHash } from 'node:crypto';
 import path from 'node:path';
 import {
   loanDocumentKindLabels,
   type LoanDocument,
   type LoanDocumentKind,
 } from '@evalon/contracts';
-import { insertAuditEvent } from '../../audit/domain/audit';
-import { isBuyerOf } from '../../catalog/domain/scope';
-import type { PhotoStore } from '../../catalog/domain/photo-store';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { canSeeLoan } from '../../loans/domain/queries';
+import { insertAuditEvent } from '../../audit';
+import { isBuyerOf } from '../../catalog';
+import { LocalFileStore, newStorageKey } from '../../storage/file-store';
+import type { AuthContext } from '../../identity';
+import { canSeeLoan } from '../../loans';
+import { AppError } from '../../errors';
 import { findLoanDeposit } from '../data-access/payment-repository';
 import {
   findLoanDocument,
@@ -25,56 +24,18 @@ const keyPattern = /^[a-f0-9]{32}\.pdf$/;
 
 /** A fresh random storage key (128 random bits); the person's file name is never used. */
 export function newDocumentKey(): string {
-  return `${randomBytes(16).toString('hex')}.pdf`;
+  return newStorageKey('pdf');
 }
 
 /**
  * Loan documents as files in one folder outside the web root (default `.data/uploads/documents`),
- * behind the same storage interface as model photos, so an S3-compatible object store can
- * replace both. Keys are checked against the random-name pattern before touching the disk.
+ * behind the same file-store interface as model photos, so an S3-compatible object store can
+ * replace both.
  */
-export class LocalDocumentStore implements PhotoStore {
-  constructor(
-    /** Absolute folder; created on the first write. */
-    readonly dir: string,
-  ) {}
-
-  private file(key: string): string {
-    if (!keyPattern.test(key)) throw new Error(`not a document storage key: ${key}`);
-    return path.join(this.dir, key);
+export class LocalDocumentStore extends LocalFileStore {
+  constructor(dir: string) {
+    super(dir, keyPattern, 'document');
   }
-
-  async put(key: string, data: Buffer): Promise<void> {
-    const target = this.file(key);
-    await fs.mkdir(this.dir, { recursive: true, mode: 0o750 });
-    // Write then rename, so a reader never sees half a file.
-    const temporary = `${target}.${process.pid}.part`;
-    await fs.writeFile(temporary, data, { mode: 0o640 });
-    await fs.rename(temporary, target);
-  }
-
-  async get(key: string): Promise<Buffer | null> {
-    try {
-      return await fs.readFile(this.file(key));
-    } catch (error) {
-      if ((error as NodeJS.ErrnoException).code === 'ENOENT') return null;
-      throw error;
-    }
-  }
-
-  async remove(key: string): Promise<void> {
-    await fs.rm(this.file(key), { force: true });
-  }
-}
-
-/**
- * The document store the environment asks for: `EVALON_DOCUMENT_DIR` (absolute, or relative to
- * `EVALON_ROOT`, else the working directory), default `.data/uploads/documents`.
- */
-export function documentStoreFromEnv(env: NodeJS.ProcessEnv = process.env): PhotoStore {
-  const root = env.EVALON_ROOT?.trim() || process.cwd();
-  const dir = env.EVALON_DOCUMENT_DIR?.trim() || '.data/uploads/documents';
-  return new LocalDocumentStore(path.resolve(root, dir));
 }
 
 /**

@@ -1,12 +1,4 @@
-import { lockUnits } from '../../catalog/data-access/catalog-repository';
-import { deleteLoanHolds } from '../../catalog/data-access/hold-repository';
-import {
-  bumpBookingVersions,
-  insertLoanEvent,
-  loanUnitIds,
-  updateLoanState,
-} from '../../loans/data-access/loan-repository';
-import { planTransition } from '../../loans/domain/state-machine';
+import { applyLoanTransition, planTransition } from '../../loans';
 import {
   findApprovedWithoutDeadline,
   findLoanDeposit,
@@ -67,24 +59,19 @@ export async function runDepositExpiry(
       const now = deps.now();
       const loan = await findLoanDeposit(tx, id, 'skip_locked');
       if (!loan || !loan.depositDueAt || loan.depositDueAt > now) return false;
-      const plan = planTransition(loan.state, 'expire');
-      if (!plan.ok) return false;
-      const locked = await lockUnits(tx, await loanUnitIds(tx, id));
-      await deleteLoanHolds(tx, id);
-      await bumpBookingVersions(tx, locked);
-      await updateLoanState(tx, id, plan.to, now);
-      await insertLoanEvent(
+      if (!planTransition(loan.state, 'expire').ok) return false;
+      await applyLoanTransition(
         tx,
+        loan,
+        'expire',
+        { userId: null },
+        `The deposit was not secured by ${loan.depositDueAt.toISOString()}.`,
         {
-          loanId: id,
-          actorUserId: null,
-          fromState: plan.from,
-          toState: plan.to,
-          reason: `The deposit was not secured by ${loan.depositDueAt.toISOString()}.`,
+          now,
+          notifyLoanEvent: deps.notifyLoanEvent,
+          depositWindowMs: deps.config.depositWindowMs,
         },
-        now,
       );
-      await deps.notifyLoanEvent(tx, { loanId: id, event: 'expired' });
       return true;
     });
     if (expired) run.expired.push(id);

@@ -1,7 +1,7 @@
 import { depositCaution, type LoanPayments, type Payment } from '@evalon/contracts';
-import { AppError } from '../../http/errors';
-import type { AuthContext } from '../../identity/domain/auth-context';
-import { canSeeLoan } from '../../loans/domain/queries';
+import { AppError } from '../../errors';
+import type { AuthContext } from '../../identity';
+import { canSeeLoan } from '../../loans';
 import { findActiveCreditAgreement } from '../data-access/credit-agreement-repository';
 import {
   findLoanDeposit,
@@ -73,4 +73,19 @@ export async function getLoanPayments(
     refunds,
     caution: depositCaution,
   };
+}
+
+/**
+ * Refuses (404) a loan the person may not see, before anything else about the request is read:
+ * the scope check of the `/api/loans/:id/...` payment routes.
+ */
+export async function assertLoanVisible(
+  deps: Pick<PaymentsDeps, 'dataSource'>,
+  auth: AuthContext,
+  loanId: number,
+): Promise<void> {
+  const loan = await findLoanDeposit(deps.dataSource.manager, loanId);
+  if (!loan || !canSeeLoan(auth, loan)) {
+    throw AppError.notFound('loan_not_found', 'There is no such loan.');
+  }
 }

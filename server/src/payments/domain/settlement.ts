@@ -1,5 +1,5 @@
 import { settle, settleHold, type Charge, type ChargeAllocation } from '@evalon/deposits';
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import {
   findLoanDeposit,
   findLoanPayments,

@@ -1,4 +1,4 @@
-import { AppError } from '../../http/errors';
+import { AppError } from '../../errors';
 import { findPayment } from '../data-access/payment-repository';
 import { applyPaymentFacts, recordRefund, type ApplyOutcome } from './confirmation';
 import type { PaymentsDeps } from './deps';

@@ -1,5 +1,18 @@
 import type { Role } from '@evalon/contracts';
-import type { MailMessage } from './mailer';
+import { escapeHtml } from './escape';
+
+/**
+ * The account e-mails (invitation, added to an organisation, password reset): a simple layout of
+ * their own with one action button. The loan e-mails are in `templates.ts`.
+ */
+
+/** An account e-mail, ready for the outbox (the server's `AccountEmail` takes it as it is). */
+export interface AccountEmail {
+  to: string;
+  subject: string;
+  html: string;
+  text: string;
+}
 
 /** Plain-language role names used in e-mails. */
 export const roleNames: Readonly<Record<Role, string>> = {
@@ -10,16 +23,6 @@ export const roleNames: Readonly<Record<Role, string>> = {
   coordinator: 'logistics coordinator',
   fleet_manager: 'fleet manager',
 };
-
-/** Escapes text for HTML element content and attribute values. */
-export function escapeHtml(text: string): string {
-  return text
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;')
-    .replace(/'/g, '&#39;');
-}
 
 /** A date and time in UTC, written out so it reads the same in every mail client. */
 function utcWords(at: Date): string {
@@ -53,7 +56,7 @@ const colours = {
 };
 
 /** Renders the shared Evalon layout as HTML and plain text. */
-function render(layout: Layout): MailMessage {
+function render(layout: Layout): AccountEmail {
   const p = (t: string) =>
     `<p style="margin:0 0 16px;font-size:16px;line-height:24px;color:${colours.ink}">${escapeHtml(t)}</p>`;
   const small = (t: string) =>
@@ -101,7 +104,7 @@ export function invitationEmail(input: {
   role: Role;
   link: string;
   expiresAt: Date;
-}): MailMessage {
+}): AccountEmail {
   return render({
     to: input.to,
     subject: `You are invited to join ${input.organisationName} on Evalon`,
@@ -126,7 +129,7 @@ export function addedToOrganisationEmail(input: {
   organisationName: string;
   role: Role;
   link: string;
-}): MailMessage {
+}): AccountEmail {
   return render({
     to: input.to,
     subject: `You now have access to ${input.organisationName} on Evalon`,
@@ -146,7 +149,7 @@ export function passwordResetEmail(input: {
   name: string;
   link: string;
   expiresAt: Date;
-}): MailMessage {
+}): AccountEmail {
   return render({
     to: input.to,
     subject: 'Reset your Evalon password',

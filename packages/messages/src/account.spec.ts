@@ -1,4 +1,5 @@
-import { escapeHtml, invitationEmail, passwordResetEmail } from './templates';
+import { invitationEmail, passwordResetEmail } from './account';
+import { escapeHtml } from './escape';
 
 describe('e-mail templates', () => {
   it('escapes the five HTML-significant characters', () => {

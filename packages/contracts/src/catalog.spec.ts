@@ -1,6 +1,6 @@
-import { gs1CheckDigit, gtin14, isValidGtin, toGtin14 } from '@evalon/contracts';
+import { gs1CheckDigit, gtin14, isValidGtin, toGtin14 } from './catalog';
 
-// The GS1 check-digit helper shared by the server and the web app (packages/contracts), checked
+// The GS1 check-digit helper shared by the server and the web app (this package), checked
 // against the published examples collected in /work/shared/reference-values.md.
 describe('GS1 check digit (GS1 General Specifications §7.9.1)', () => {
   it('matches the published examples', () => {

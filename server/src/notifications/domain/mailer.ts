@@ -1,5 +1,5 @@
 import nodemailer, { type Transporter } from 'nodemailer';
-import type { Config } from '../config';
+import type { Config } from '../../config';
 
 /** A file attached to an e-mail, e.g. a calendar invite (`text/calendar`). */
 export interface MailAttachment {

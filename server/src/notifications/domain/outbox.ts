@@ -9,7 +9,7 @@ import {
   type TransactionRollbackEvent,
 } from 'typeorm';
 import { z } from 'zod';
-import { OutboxMessageEntity, type StoredAttachment } from './data-access/entities';
+import { OutboxMessageEntity, type StoredAttachment } from '../data-access/entities';
 
 /** Header names a caller may set; the worker owns From, To, Cc, Subject, Message-ID and Date. */
 const reservedHeaders = new Set(['from', 'to', 'cc', 'bcc', 'subject', 'message-id', 'date']);

@@ -6,7 +6,7 @@ import type {
   ReadAllResponse,
   Role,
 } from '@evalon/contracts';
-import { AppError } from '../http/errors';
+import { AppError } from '../../errors';
 import {
   countUnread,
   findNotifications,
@@ -18,7 +18,7 @@ import {
   siteBelongsTo,
   type NewNotification,
   type Recipient,
-} from './data-access/notification-repository';
+} from '../data-access/notification-repository';
 
 export type { NewNotification, Recipient };
 

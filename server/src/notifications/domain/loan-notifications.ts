@@ -1,7 +1,8 @@
-import { DateTime } from 'luxon';
 import type { EntityManager } from 'typeorm';
-import type { Config } from '../config';
+import type { Config } from '../../config';
 import type { Role } from '@evalon/contracts';
+import { unitDepositDueBy } from '@evalon/deposits';
+import type { LoanEventNotice, LoanNotificationEvent, NotifyLoanEvent } from '../../loans';
 import {
   loanApproved,
   loanCancelled,
@@ -19,8 +20,8 @@ import {
   sqlLoanNotificationLoader,
   type LoanNotificationData,
   type LoanNotificationLoader,
-} from './data-access/loan-notification-repository';
-import type { Recipient } from './data-access/notification-repository';
+} from '../data-access/loan-notification-repository';
+import type { Recipient } from '../data-access/notification-repository';
 import { notifyUsers, recipientsFor } from './in-app';
 import { enqueueEmail } from './outbox';
 import { messageIdDomain } from './outbox-worker';
@@ -30,63 +31,21 @@ export {
   sqlLoanNotificationLoader,
   type LoanNotificationData,
   type LoanNotificationLoader,
-} from './data-access/loan-notification-repository';
+} from '../data-access/loan-notification-repository';
 
-/** Loan events that tell people something. */
-export const loanNotificationEvents = [
-  'requested',
-  'approved',
-  'declined',
-  'cancelled',
-  'confirmed',
-  'expired',
-] as const;
-export type LoanNotificationEvent = (typeof loanNotificationEvents)[number];
-
-/** What the loans component says happened. */
-export interface LoanEventNotice {
-  loanId: number;
-  event: LoanNotificationEvent;
-  /** The reason given (decline, cancel). */
-  reason?: string | null;
-  /** Who did it (shown as "cancelled by"). */
-  actorUserId?: number;
-  /**
-   * `approved` only: the deadline to secure the deposit. When neither this nor the loader gives
-   * one, {@link defaultDepositDueBy} estimates it.
-   */
-  depositDueBy?: Date;
-}
-
-/** How long a buyer has to secure the deposit when nothing else says so. */
-export const defaultDepositWindowMs = 72 * 3_600_000;
+export {
+  loanNotificationEvents,
+  type LoanEventNotice,
+  type LoanNotificationEvent,
+  type NotifyLoanEvent,
+} from '../../loans';
 
 /**
- * A stand-in deadline for securing the deposit until the loans or payments component stores
- * one: the approval time plus `windowMs`, but never later than the start of the ship-by day at
- * the first unit's depot (a unit does not ship before its deposit is secured). A product
- * default, not a rule from any source; the e-mail calls it a deadline, the loan state decides.
+ * The deadline rule of @evalon/deposits for one unit, kept under its old name for callers here.
+ * The notifier uses it only for a loan approved without a stored deadline (rows written before
+ * deadlines were stored at approval); every other loan's e-mail shows the stored `deposit_due_at`.
  */
-export function defaultDepositDueBy(
-  approvedAt: Date,
-  shipBy: string,
-  depotTimeZone: string,
-  windowMs = defaultDepositWindowMs,
-): Date {
-  const window = new Date(approvedAt.getTime() + windowMs);
-  const shipDay = DateTime.fromISO(shipBy, { zone: depotTimeZone }).startOf('day');
-  if (!shipDay.isValid) return window;
-  const latest = shipDay.toJSDate();
-  // Never before the approval itself (a same-day loan): then the approval time stands.
-  const due = latest < window ? latest : window;
-  return due < approvedAt ? approvedAt : due;
-}
-
-/**
- * The entry point the loans domain calls with its transaction's manager; the same shape as the
- * loans component's `NotifyLoanEvent` hook, so it plugs in as it is.
- */
-export type NotifyLoanEvent = (manager: EntityManager, notice: LoanEventNotice) => Promise<void>;
+export { defaultDepositWindowMs, unitDepositDueBy as defaultDepositDueBy } from '@evalon/deposits';
 
 /** Settings of {@link createLoanNotifier}. */
 export interface LoanNotifierOptions {
@@ -252,9 +211,8 @@ export function createLoanNotifier(options: LoanNotifierOptions): NotifyLoanEven
       cancelledBy = actor?.name;
     }
     const depositDueBy =
-      notice.depositDueBy ??
       data.depositDueBy ??
-      defaultDepositDueBy(data.approvedAt ?? now, loan.milestones.shipBy, data.lenderTimeZone);
+      unitDepositDueBy(data.approvedAt ?? now, loan.milestones.shipBy, data.lenderTimeZone);
 
     const render = (to: MessageRecipient): LoanEmail => {
       const base = { loan, publicUrl };

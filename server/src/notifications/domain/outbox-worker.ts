@@ -1,11 +1,11 @@
 import { randomBytes } from 'node:crypto';
 import { hostname } from 'node:os';
 import type { DataSource } from 'typeorm';
-import type { Config } from '../config';
-import type { Logger } from '../logger';
+import type { Config } from '../../config';
+import type { Logger } from '../../logger';
 import { retryDelayMs } from './backoff';
-import { claimDue, markFailed, markSent, releaseClaimed } from './data-access/outbox-repository';
-import type { OutboxMessageRow } from './data-access/entities';
+import { claimDue, markFailed, markSent, releaseClaimed } from '../data-access/outbox-repository';
+import type { OutboxMessageRow } from '../data-access/entities';
 import type { MailMessage, Mailer } from './mailer';
 import { onOutboxEnqueued } from './outbox';
 

@@ -1,4 +1,4 @@
-import { ConfigError, loadConfig } from '../config';
+import { ConfigError, loadConfig } from '../../config';
 import { messageIdDomain, messageIdHeader } from './outbox-worker';
 
 describe('outbox configuration', () => {

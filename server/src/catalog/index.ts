@@ -1,0 +1,69 @@
+// The catalog component's front door: other components and the app use only what is exported
+// here.
+import type { AppComponent } from '../app-services';
+import { Catalog1764720000000 } from '../database/migrations/1764720000000-catalog';
+import { lenderRoutes, modelRoutes, unitRoutes } from './api/routes';
+import {
+  CompatibilityEntity,
+  LenderSettingsEntity,
+  ModelEntity,
+  PackingItemEntity,
+  PhotoEntity,
+  UnitEntity,
+} from './data-access/entities';
+import type { CatalogDeps } from './domain/deps';
+
+export {
+  findSiteWithOrganisation,
+  insertModel,
+  insertUnit,
+  lockUnits,
+  replacePackingList,
+  type SiteWithOrganisation,
+} from './data-access/catalog-repository';
+export {
+  deleteLoanHolds,
+  findHoldsForUnits,
+  insertHolds,
+  type HoldInterval,
+} from './data-access/hold-repository';
+export type { CatalogDeps } from './domain/deps';
+export { unitDeposit } from './domain/models';
+export { LocalPhotoStore, type PhotoStore } from './domain/photo-store';
+export {
+  isBuyerOf,
+  isFleetManagerOf,
+  organisationsWithRole,
+  worksForHospital,
+  worksForLender,
+} from './domain/scope';
+export { LenderSettingsCache, toSchedulingSettings } from './domain/shipping-settings';
+export { addMaintenanceHold } from './domain/units';
+
+/** Models, units, photos, lender settings and depots: their tables and routes. */
+export const catalogComponent: AppComponent = {
+  name: 'catalog',
+  entities: [
+    LenderSettingsEntity,
+    ModelEntity,
+    PackingItemEntity,
+    CompatibilityEntity,
+    PhotoEntity,
+    UnitEntity,
+  ],
+  migrations: [Catalog1764720000000],
+  routers: (ctx) => {
+    const deps: CatalogDeps = {
+      dataSource: ctx.dataSource,
+      logger: ctx.logger,
+      photoStore: ctx.services.photoStore,
+      settingsCache: ctx.services.settingsCache,
+      now: ctx.now,
+    };
+    return [
+      lenderRoutes(deps, ctx.catalogue),
+      ...modelRoutes(deps, ctx.catalogue),
+      unitRoutes(deps, ctx.catalogue),
+    ];
+  },
+};
