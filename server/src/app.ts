@@ -38,6 +38,9 @@ import {
   paymentWebhookRoutes,
   type PaymentsClient,
 } from './payments';
+import { createProctorDeps, proctorRoutes } from './proctors';
+import { createVisitDeps, visitRoutes, type NotifyVisitEvent } from './visits';
+import { visitNotifierFromConfig } from './notifications/visit-notifications';
 
 /** What the app is built from; `main.ts` makes the real ones, tests their own. */
 export interface AppDeps {
@@ -63,6 +66,10 @@ export interface AppDeps {
   paymentsClient?: PaymentsClient;
   /** Where loan documents live (default: `EVALON_DOCUMENT_DIR`, a local folder). */
   documentStore?: PhotoStore;
+  /** Called inside every visit-changing transaction (default: the outbox's visit notifier). */
+  notifyVisitEvent?: NotifyVisitEvent;
+  /** Where credential PDFs live (default: `EVALON_CREDENTIAL_DIR`, a local folder). */
+  credentialStore?: PhotoStore;
 }
 
 const requestIdPattern = /^[A-Za-z0-9._-]{1,64}$/;
@@ -174,6 +181,25 @@ export function createApp(deps: AppDeps): Express {
     ...mapsRoutes(deps.maps ?? mapsOptionsFromEnv(), catalogue),
     loanPaymentRoutes(paymentsDeps, catalogue),
     creditAgreementRoutes(paymentsDeps, catalogue),
+    proctorRoutes(
+      createProctorDeps({
+        dataSource,
+        logger,
+        now: identityDeps.now,
+        credentialStore: deps.credentialStore,
+      }),
+      catalogue,
+    ),
+    visitRoutes(
+      createVisitDeps({
+        dataSource,
+        logger,
+        now: identityDeps.now,
+        notifyVisitEvent:
+          deps.notifyVisitEvent ?? visitNotifierFromConfig(config, { now: identityDeps.now }),
+      }),
+      catalogue,
+    ),
   ];
   for (const r of routers) app.use(r.basePath, r.router);
   app.use('/api', apiNotFound);

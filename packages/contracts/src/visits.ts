@@ -274,7 +274,9 @@ export const traineeRoles = ['observed', 'assisted', 'performed_supervised'] as 
  */
 export function findPatientIdentifiers(text: string): string[] {
   const found: string[] = [];
-  if (/\b(patient|pt\.?|mr\.?|mrs\.?|ms\.?)\s+[A-Z][a-z]+/u.test(text)) {
+  // The title word in any case, followed by a capitalised word: "Patient Smith", "pt. Jones".
+  const titled = [...text.matchAll(/\b(?:patient|pt|mr|mrs|ms|miss)\.?\s+(\p{L}+)/giu)];
+  if (titled.some((m) => /^\p{Lu}\p{Ll}+$/u.test(m[1] ?? ''))) {
     found.push('Leave out patient names.');
   }
   if (/\b(mrn|medical record|record (no|number)|chart)\b/i.test(text) || /\b\d{6,}\b/.test(text)) {

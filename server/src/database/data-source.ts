@@ -25,6 +25,9 @@ import { Catalog1764720000000 } from './migrations/1764720000000-catalog';
 import { Loans1764720060000 } from './migrations/1764720060000-loans';
 import { HoldsHospital1764979200000 } from './migrations/1764979200000-holds-hospital';
 import { Payments1764892800000 } from './migrations/1764892800000-payments';
+import { Proctoring1765065600000 } from './migrations/1765065600000-proctoring';
+import { proctorEntities } from '../proctors';
+import { visitEntities } from '../visits';
 
 /** Every entity, listed by hand because the server is bundled (no globbing at run time). */
 export const entities: EntitySchema<never>[] = [
@@ -46,6 +49,8 @@ export const entities: EntitySchema<never>[] = [
   LoanUnitEntity,
   HoldEntity,
   LoanEventEntity,
+  ...proctorEntities,
+  ...visitEntities,
 ] as EntitySchema<never>[];
 
 /** Every migration in order, listed by hand for the same reason. */
@@ -56,10 +61,19 @@ export const migrations: (new () => MigrationInterface)[] = [
   OutboxNotifications1764806400000,
   Payments1764892800000,
   HoldsHospital1764979200000,
+  Proctoring1765065600000,
 ];
 
 /** Tables the application owns (everything but TypeORM's `migrations`), children first. */
 export const appTables = [
+  'visit_sign_offs',
+  'visit_cases',
+  'visit_events',
+  'visit_offers',
+  'visits',
+  'proctor_credentials',
+  'proctor_experience',
+  'proctor_profiles',
   'loan_documents',
   'refunds',
   'payment_events',

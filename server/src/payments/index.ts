@@ -38,3 +38,4 @@ export function createPaymentsDeps(input: {
     now,
   };
 }
+export { isPdf, LocalDocumentStore, newDocumentKey } from './domain/documents';
