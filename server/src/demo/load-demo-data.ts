@@ -15,6 +15,7 @@ import {
 } from '../organisations/data-access/organisation-repository';
 import { demoOrganisations, demoPassword } from './demo-data';
 import { loadDemoCatalog, type DemoCatalogSummary } from './load-demo-catalog';
+import { loadDemoProctoring } from './load-demo-proctors';
 
 /** Whether the database holds no organisations and no people yet. */
 export async function isDatabaseEmpty(dataSource: DataSource): Promise<boolean> {
@@ -40,6 +41,9 @@ export async function truncateAppTables(dataSource: DataSource): Promise<void> {
 
 /** What was loaded, for the CLI to report. */
 export interface DemoSummary extends DemoCatalogSummary {
+  /** Proctors with profiles, and visits. */
+  proctors?: number;
+  visits?: number;
   organisations: number;
   sites: number;
   people: number;
@@ -76,7 +80,9 @@ export async function loadDemoData(dataSource: DataSource, now = new Date()): Pr
       );
       summary.organisations++;
       for (const site of org.sites) {
-        await insertSite(m, { organisationId, ...site }, now);
+        // The campus's ISO 3166-2 subdivision decides which licences cover a visit there.
+        const subdivision = site.region ? `${site.country}-${site.region}` : null;
+        await insertSite(m, { organisationId, ...site, subdivision }, now);
         summary.sites++;
       }
       let inviterId: number | null = null;
@@ -148,5 +154,6 @@ export async function loadDemoData(dataSource: DataSource, now = new Date()): Pr
   });
   // The catalogue and loans go through the product's own use cases, each in its transaction.
   Object.assign(summary, await loadDemoCatalog(dataSource, now));
+  Object.assign(summary, await loadDemoProctoring(dataSource, now, passwordHash));
   return summary;
 }
