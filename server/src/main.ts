@@ -8,6 +8,12 @@ import { createLogger } from './logger';
 import { SmtpMailer } from './notifications/mailer';
 import { createOutboxWorker } from './notifications/outbox-worker';
 import { createPaymentsClient, createPaymentsDeps, startDepositExpiryJob } from './payments';
+import { startCredentialWarningJob } from './proctors';
+import { createVisitDeps, startOfferDeadlineJob } from './visits';
+import {
+  credentialNotifierFromConfig,
+  visitNotifierFromConfig,
+} from './notifications/visit-notifications';
 
 const sessionSweepIntervalMs = 15 * 60_000;
 
@@ -53,6 +59,21 @@ async function main(): Promise<void> {
   if (expiryJob) {
     logger.info({ intervalMs: config.payments.expiryIntervalMs }, 'deposit expiry job started');
   }
+  // Lapsed visit offers move to the next proctor; credentials ending within 60 days are warned
+  // about. Both claim rows with SKIP LOCKED, so any number of processes may run them.
+  const offerJob = startOfferDeadlineJob(
+    createVisitDeps({
+      dataSource,
+      logger,
+      notifyVisitEvent: visitNotifierFromConfig(config),
+    }),
+  );
+  const credentialJob = startCredentialWarningJob({
+    dataSource,
+    logger,
+    now: () => new Date(),
+    notify: credentialNotifierFromConfig(config),
+  });
   // The outbox worker sends what transactions enqueued; any number of processes may run one.
   const outboxWorker = config.outbox.worker
     ? createOutboxWorker(config, { dataSource, mailer, logger })
@@ -99,6 +120,8 @@ async function main(): Promise<void> {
     const workerStopped = Promise.all([
       outboxWorker?.stop() ?? Promise.resolve(),
       expiryJob?.stop() ?? Promise.resolve(),
+      offerJob.stop(),
+      credentialJob.stop(),
     ]).catch((err: unknown) => logger.warn({ err }, 'background work did not stop cleanly'));
     server.close(() => {
       void workerStopped.then(() => {

@@ -1,7 +1,11 @@
 import { addCalendarDays } from '@evalon/scheduling';
 import { createLogger } from '../src/logger';
 import { createVisitDeps, runOfferDeadlines } from '../src/visits';
-import { visitNotifierFromConfig } from '../src/notifications/visit-notifications';
+import {
+  credentialNotifierFromConfig,
+  visitNotifierFromConfig,
+} from '../src/notifications/visit-notifications';
+import { runCredentialWarnings } from '../src/proctors';
 import { startTestApp, type TestApp } from './helpers/app';
 import {
   countRows,
@@ -658,5 +662,47 @@ describe('cases and sign-off', () => {
 
     const again = await post(proctor, `/api/visits/${id}/sign-offs`, { traineeUserId: trainee });
     expect(again.status).toBe(409);
+  });
+});
+
+describe('credential warnings', () => {
+  it('warns once, 60 days ahead, by e-mail and in-app; the profile shows the credential as expiring', async () => {
+    const soon = addCalendarDays(new Date().toISOString().slice(0, 10), 30);
+    const later = addCalendarDays(new Date().toISOString().slice(0, 10), 90);
+    const p = await makeProctor(t.dataSource, {
+      licences: [
+        { jurisdiction: 'US-MA', validFrom: '2020-01-01', validTo: soon },
+        { jurisdiction: 'US-NY', validFrom: '2020-01-01', validTo: later },
+      ],
+    });
+    const deps = {
+      dataSource: t.dataSource,
+      now: () => new Date(),
+      notify: credentialNotifierFromConfig(t.config),
+    };
+    await runCredentialWarnings(deps);
+    await runCredentialWarnings(deps);
+    const mails: { subject: string }[] = await t.dataSource.query(
+      'SELECT subject FROM outbox_messages WHERE to_addresses LIKE ?',
+      [`%${p.email}%`],
+    );
+    expect(mails).toHaveLength(1);
+    expect(mails[0]!.subject).toContain(soon);
+    expect(
+      await countRows(
+        t.dataSource,
+        'notifications',
+        "user_id = ? AND kind = 'credential.expiring'",
+        [p.userId],
+      ),
+    ).toBe(1);
+    const profile = await (await sign(p)).agent.get('/api/proctors/me').expect(200);
+    const statuses = profile.body.profile.credentials.map(
+      (c: { jurisdiction: string; status: string }) => [c.jurisdiction, c.status],
+    );
+    expect(statuses).toEqual([
+      ['US-MA', 'expiring'],
+      ['US-NY', 'valid'],
+    ]);
   });
 });

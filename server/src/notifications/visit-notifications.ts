@@ -1,6 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { Config } from '../config';
 import {
+  credentialExpiring,
   visitAccepted,
   visitCancelled,
   visitOfferAnswered,
@@ -11,6 +12,7 @@ import {
   type LoanEmail,
   type Recipient as MessageRecipient,
 } from '@evalon/messages';
+import type { NotifyCredentialExpiring } from '../proctors';
 import type { NotifyVisitEvent, VisitEventNotice } from '../visits';
 import {
   findPeople,
@@ -254,4 +256,52 @@ export function visitNotifierFromConfig(
     uidDomain: messageIdDomain(config.smtp.from),
     ...overrides,
   });
+}
+
+/**
+ * The proctors component's credential warning hook: an e-mail (in the proctor's zone) and an
+ * in-app notice, once per credential, 60 days before it ends.
+ */
+export function credentialNotifierFromConfig(
+  config: Pick<Config, 'http'>,
+  overrides: { now?: () => Date } = {},
+): NotifyCredentialExpiring {
+  const clock = overrides.now ?? (() => new Date());
+  return async (m, c) => {
+    const now = clock();
+    const [person] = await findPeople(m, [c.proctorUserId]);
+    if (!person) return;
+    const mail = credentialExpiring(
+      {
+        title: c.title,
+        jurisdiction: c.jurisdiction,
+        validTo: c.validTo,
+        publicUrl: config.http.publicUrl,
+      },
+      { name: person.name, email: person.email, timeZone: person.timeZone ?? 'UTC' },
+    );
+    await enqueueEmail(
+      m,
+      {
+        to: person.email,
+        subject: mail.subject,
+        html: mail.html,
+        text: mail.text,
+        dedupeKey: `credential:${c.id}:expiring:user:${person.userId}`,
+      },
+      now,
+    );
+    await notifyUsers(
+      m,
+      [person.userId],
+      {
+        kind: 'credential.expiring',
+        title: `${c.title} ends on ${c.validTo}`,
+        body: `Visits in ${c.jurisdiction} after that day are not offered to you. Upload the renewed credential.`,
+        link: '/proctor/credentials',
+        dedupeKey: `credential:${c.id}:expiring`,
+      },
+      now,
+    );
+  };
 }

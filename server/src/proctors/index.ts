@@ -61,3 +61,8 @@ export {
   updateAvailability,
   upsertProfile,
 } from './data-access/proctor-repository';
+export {
+  runCredentialWarnings,
+  startCredentialWarningJob,
+  type NotifyCredentialExpiring,
+} from './domain/credential-warnings';
