@@ -150,6 +150,7 @@ export class Proctoring1765065600000 implements MigrationInterface {
         UNIQUE KEY uq_visit_offers_live (live_visit_id),
         KEY ix_visit_offers_deadline (state, deadline_at),
         KEY ix_visit_offers_proctor_state (proctor_user_id, state),
+        KEY ix_visit_offers_proctor_offered (proctor_user_id, offered_at),
         CONSTRAINT fk_visit_offers_visit FOREIGN KEY (visit_id) REFERENCES visits (id),
         CONSTRAINT fk_visit_offers_proctor FOREIGN KEY (proctor_user_id) REFERENCES proctor_profiles (user_id),
         CONSTRAINT ck_visit_offers_state CHECK (state IN ('queued', 'offered', 'accepted', 'declined', 'expired', 'withdrawn', 'skipped'))

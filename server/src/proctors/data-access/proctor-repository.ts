@@ -310,14 +310,20 @@ export async function findBusyRanges(
   m: EntityManager,
   userIds: readonly number[] | null,
   excludeVisitId?: number,
+  within?: { from: string; to: string },
 ): Promise<{ proctorUserId: number; visitId: number; from: string; to: string }[]> {
   if (userIds && userIds.length === 0) return [];
   const rows: Record<string, unknown>[] = await m.query(
     `SELECT v.proctor_user_id AS p, v.id, ${day('v.busy_from', 'f')}, ${day('v.busy_to', 't')}
        FROM visits v
       WHERE v.state IN ('accepted', 'completed', 'signed_off') AND v.busy_from IS NOT NULL
-        ${userIds ? 'AND v.proctor_user_id IN (?)' : ''} ${excludeVisitId ? 'AND v.id <> ?' : ''}`,
-    [...(userIds ? [userIds] : []), ...(excludeVisitId ? [excludeVisitId] : [])],
+        ${userIds ? 'AND v.proctor_user_id IN (?)' : ''} ${excludeVisitId ? 'AND v.id <> ?' : ''}
+        ${within ? 'AND v.busy_to >= ? AND v.busy_from <= ?' : ''}`,
+    [
+      ...(userIds ? [userIds] : []),
+      ...(excludeVisitId ? [excludeVisitId] : []),
+      ...(within ? [within.from, within.to] : []),
+    ],
   );
   return rows.map((r) => ({
     proctorUserId: Number(r.p),

@@ -1,4 +1,5 @@
 import type { EntityManager } from 'typeorm';
+import { addCalendarDays } from '@evalon/scheduling';
 import {
   matchProctors,
   type Proctor,
@@ -36,6 +37,7 @@ export async function loadCandidates(
   m: EntityManager,
   userIds: readonly number[] | null,
   excludeVisitId?: number,
+  within?: { from: string; to: string },
 ): Promise<Proctor[]> {
   const profiles: ProctorProfileRow[] = await findProfiles(m, userIds ?? undefined);
   const ids = profiles.map((p) => p.userId);
@@ -43,7 +45,7 @@ export async function loadCandidates(
   const [experience, credentials, busy, offered] = await Promise.all([
     findExperience(m, ids),
     findCredentials(m, ids),
-    findBusyRanges(m, userIds ? ids : null, excludeVisitId),
+    findBusyRanges(m, userIds ? ids : null, excludeVisitId, within),
     lastOfferedAt(m, userIds ? ids : null),
   ]);
   const byProctor = <T extends { proctorUserId: number }>(rows: T[]) => {
@@ -111,7 +113,10 @@ export async function matchVisit(
   now: Date,
   options: { userIds?: readonly number[]; excludeVisitId?: number } = {},
 ): Promise<ProctorMatch[]> {
-  const proctors = await loadCandidates(m, options.userIds ?? null, options.excludeVisitId);
+  // Only accepted visits near the request can overlap its footprint (at most one travel day
+  // either side): a week either side is ample and keeps the read small.
+  const within = { from: addCalendarDays(ask.from, -7), to: addCalendarDays(ask.to, 7) };
+  const proctors = await loadCandidates(m, options.userIds ?? null, options.excludeVisitId, within);
   return matchProctors(visitRequest(ask), proctors, now, {
     minSupervisedCases: ask.minSupervisedCases,
     travelDayThresholdKm: settings.travelDayThresholdKm,
