@@ -98,6 +98,12 @@ const whyWords: Partial<Record<string, string>> = {
     <mat-card appearance="outlined">
       <h2>The next 8 weeks</h2>
       <div class="weeks" role="grid" aria-label="Next 8 weeks">
+        @for (w of weekdays; track w) {
+          <span class="weekday" aria-hidden="true">{{ w }}</span>
+        }
+        @for (pad of padding(); track $index) {
+          <span aria-hidden="true"></span>
+        }
         @for (d of preview(); track d.date) {
           <span
             class="day"
@@ -176,6 +182,11 @@ const whyWords: Partial<Record<string, string>> = {
       background: var(--mat-sys-tertiary-container);
       color: var(--mat-sys-on-tertiary-container);
     }
+    .weekday {
+      text-align: center;
+      font: var(--mat-sys-label-small);
+      color: var(--mat-sys-on-surface-variant);
+    }
     .legend {
       display: flex;
       gap: 8px;
@@ -197,6 +208,14 @@ export class ProctorAvailability {
   protected readonly status = signal('');
   protected readonly fieldErrors = signal<Readonly<Record<string, string>>>({});
   protected readonly hasRules = computed(() => this.rules().length > 0);
+  protected readonly weekdays = ['Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat', 'Sun'];
+  /** Empty cells before the first day, so each column is one weekday (Monday first). */
+  protected readonly padding = computed(() => {
+    const first = this.preview()[0]?.date;
+    if (!first) return [];
+    const weekday = new Date(`${first}T12:00:00Z`).getUTCDay(); // 0 = Sunday
+    return Array.from({ length: (weekday + 6) % 7 });
+  });
 
   constructor() {
     this.api

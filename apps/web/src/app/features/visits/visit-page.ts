@@ -108,6 +108,27 @@ export class VisitPage {
       this.isHospital() &&
       ['requested', 'offered', 'accepted', 'unfilled'].includes(this.visit()?.state ?? ''),
   );
+  /** A line on where the visit stands, for the "Now" card. */
+  protected readonly nowText = computed(() => {
+    const v = this.visit();
+    if (!v) return '';
+    switch (v.state) {
+      case 'requested':
+        return 'Evalon is lining up the first proctor.';
+      case 'offered':
+        return 'One proctor at a time is asked; if they decline or the deadline passes, the next is asked.';
+      case 'accepted':
+        return `${v.proctorName} comes on the case days; the calendar invite went to both sides.`;
+      case 'completed':
+        return 'The visit is done; trainees who reached the threshold can be signed off.';
+      case 'signed_off':
+        return 'Signed off; the one-page record is below and went to the hospital’s buyers.';
+      case 'cancelled':
+        return 'This visit was cancelled.';
+      case 'unfilled':
+        return 'Nobody on the list could take the visit.';
+    }
+  });
   protected readonly countdown = computed(() => {
     const offer = this.visit()?.currentOffer;
     return offer?.deadlineAt ? timeLeft(offer.deadlineAt, this.now()) : null;
