@@ -287,6 +287,31 @@ describe('candidates', () => {
   });
 });
 
+describe('candidates after a change', () => {
+  it('a repeated search sees a proctor’s new availability at once', async () => {
+    const w = await world(200);
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const url = `/api/visits/candidates?siteId=${w.hospital.campusId}&modelId=${w.modelId}&from=${w.from}&to=${w.to}`;
+    const before = await w.buyer.agent.get(url).expect(200);
+    const mine = (r: { body: { items: { proctorId: number; eligible: boolean }[] } }) =>
+      r.body.items.find((i) => i.proctorId === p.userId)!;
+    expect(mine(before).eligible).toBe(true);
+    const client = await sign(p);
+    await client.agent
+      .put('/api/proctors/me/availability')
+      .set('X-XSRF-TOKEN', client.csrf)
+      .send({
+        rules: [`DTSTART;TZID=America/New_York:20260103T080000\nRRULE:FREQ=WEEKLY;BYDAY=SA`],
+        exceptions: [],
+        blackouts: [],
+      })
+      .expect(200);
+    const after = await w.buyer.agent.get(url).expect(200);
+    expect(mine(after).eligible).toBe(false);
+    expect(mine(after).exclusions.join(' ')).toMatch(/not in the availability pattern/);
+  });
+});
+
 describe('request → offer → decline → next → accept', () => {
   it('offers one proctor at a time; a decline offers the next; accepting sends REQUEST invites', async () => {
     const w = await world();

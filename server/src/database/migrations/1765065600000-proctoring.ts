@@ -43,6 +43,7 @@ export class Proctoring1765065600000 implements MigrationInterface {
         updated_at DATETIME(3) NOT NULL,
         PRIMARY KEY (user_id),
         KEY ix_proctor_profiles_org (organisation_id),
+        KEY ix_proctor_profiles_updated (updated_at),
         CONSTRAINT fk_proctor_profiles_user FOREIGN KEY (user_id) REFERENCES users (id),
         CONSTRAINT fk_proctor_profiles_org FOREIGN KEY (organisation_id) REFERENCES organisations (id)
       ) ENGINE=InnoDB DEFAULT CHARSET=utf8mb4 COLLATE=utf8mb4_unicode_ci`);
@@ -119,6 +120,7 @@ export class Proctoring1765065600000 implements MigrationInterface {
         KEY ix_visits_hospital_state (hospital_id, state),
         KEY ix_visits_proctor_busy (proctor_user_id, state, busy_from, busy_to),
         KEY ix_visits_loan (loan_id),
+        KEY ix_visits_updated (updated_at),
         CONSTRAINT fk_visits_hospital FOREIGN KEY (hospital_id) REFERENCES organisations (id),
         CONSTRAINT fk_visits_site FOREIGN KEY (site_id) REFERENCES sites (id),
         CONSTRAINT fk_visits_model FOREIGN KEY (model_id) REFERENCES models (id),
@@ -151,6 +153,7 @@ export class Proctoring1765065600000 implements MigrationInterface {
         KEY ix_visit_offers_deadline (state, deadline_at),
         KEY ix_visit_offers_proctor_state (proctor_user_id, state),
         KEY ix_visit_offers_proctor_offered (proctor_user_id, offered_at),
+        KEY ix_visit_offers_offered (offered_at),
         CONSTRAINT fk_visit_offers_visit FOREIGN KEY (visit_id) REFERENCES visits (id),
         CONSTRAINT fk_visit_offers_proctor FOREIGN KEY (proctor_user_id) REFERENCES proctor_profiles (user_id),
         CONSTRAINT ck_visit_offers_state CHECK (state IN ('queued', 'offered', 'accepted', 'declined', 'expired', 'withdrawn', 'skipped'))

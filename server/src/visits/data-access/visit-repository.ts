@@ -616,3 +616,19 @@ export async function findLoanForVisit(
       .map(Number),
   };
 }
+
+/**
+ * A version of everything the candidate search reads: it changes whenever a profile, its
+ * availability or experience, a credential, a visit, an offer or a person changes.
+ */
+export async function candidateDataVersion(m: EntityManager): Promise<string> {
+  const [row]: Record<string, unknown>[] = await m.query(
+    `SELECT (SELECT MAX(updated_at) FROM proctor_profiles) AS profiles,
+            (SELECT COUNT(*) FROM proctor_profiles) AS proctors,
+            (SELECT MAX(id) FROM proctor_credentials) AS credentials,
+            (SELECT MAX(updated_at) FROM visits) AS visits,
+            (SELECT MAX(offered_at) FROM visit_offers) AS offers,
+            (SELECT MAX(updated_at) FROM users) AS users`,
+  );
+  return JSON.stringify(row);
+}

@@ -1,10 +1,19 @@
 import type { Candidate } from '@evalon/contracts';
 import { AppError } from '../../http/errors';
 import type { AuthContext } from '../../identity/domain/auth-context';
-import { findCampus, findModelSettings } from '../data-access/visit-repository';
+import {
+  candidateDataVersion,
+  findCampus,
+  findModelSettings,
+} from '../data-access/visit-repository';
 import type { VisitDeps } from './deps';
 import { matchVisit } from './matching';
 import { isRequesterOf } from './scope';
+
+/** How long a ranked list may be served again for the same search and the same data. */
+const cacheTtlMs = 60_000;
+const cacheSize = 200;
+const cache = new Map<string, { at: number; items: Candidate[] }>();
 
 /**
  * Every proctor for a visit request, ranked by the matching package: the eligible first by
@@ -30,6 +39,21 @@ export async function listCandidates(
     );
   }
   if (!model) throw AppError.notFound('model_not_found', 'There is no such model.');
+  // The ranking of a thousand proctors takes the matching package a large fraction of a second
+  // (recurrence rules are read for each). The same search is served again for a minute as long
+  // as nothing it reads has changed: the key holds a version of every table it reads (profiles,
+  // credentials, visits, offers), so a change is seen on the next search. Accepting an offer
+  // never uses this list: it matches again under the proctor's lock.
+  const now = deps.now();
+  const key = JSON.stringify([
+    query,
+    model.minSupervisedCases,
+    deps.settings.travelDayThresholdKm,
+    now.toISOString().slice(0, 10),
+    await candidateDataVersion(m),
+  ]);
+  const hit = cache.get(key);
+  if (hit && now.getTime() - hit.at < cacheTtlMs) return hit.items;
   const matches = await matchVisit(
     m,
     {
@@ -44,7 +68,7 @@ export async function listCandidates(
     deps.settings,
     deps.now(),
   );
-  return matches.map((x) => ({
+  const items = matches.map((x) => ({
     proctorId: Number(x.proctorId),
     name: x.name,
     eligible: x.eligible,
@@ -55,4 +79,7 @@ export async function listCandidates(
     travelDays: x.travelDays,
     feeEstimate: x.feeEstimate,
   }));
+  if (cache.size >= cacheSize) cache.delete(cache.keys().next().value!);
+  cache.set(key, { at: now.getTime(), items });
+  return items;
 }
