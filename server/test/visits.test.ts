@@ -293,8 +293,9 @@ describe('candidates after a change', () => {
     const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
     const url = `/api/visits/candidates?siteId=${w.hospital.campusId}&modelId=${w.modelId}&from=${w.from}&to=${w.to}`;
     const before = await w.buyer.agent.get(url).expect(200);
-    const mine = (r: { body: { items: { proctorId: number; eligible: boolean }[] } }) =>
-      r.body.items.find((i) => i.proctorId === p.userId)!;
+    const mine = (r: {
+      body: { items: { proctorId: number; eligible: boolean; exclusions: string[] }[] };
+    }) => r.body.items.find((i) => i.proctorId === p.userId)!;
     expect(mine(before).eligible).toBe(true);
     const client = await sign(p);
     await client.agent
