@@ -46,6 +46,8 @@ afterAll(async () => {
 });
 
 describe('demo data', () => {
+  // Loading plays the demo visits through the visit use cases (matching every proctor): on a
+  // busy 2-core machine that takes several seconds.
   it('loads into an empty database only', async () => {
     expect(await isDatabaseEmpty(dataSource)).toBe(true);
     const summary = await loadDemoData(dataSource);
@@ -68,7 +70,7 @@ describe('demo data', () => {
     expect([Number(counts.o), Number(counts.s), Number(counts.u)]).toEqual([10, 6, 18]);
     expect(await isDatabaseEmpty(dataSource)).toBe(false);
     await expect(loadDemoData(dataSource)).rejects.toThrow(/empty/);
-  });
+  }, 60_000);
 
   it('has the accounts the brief names, in the right kinds of organisation', async () => {
     const rows: { email: string; role: string; kind: string; organisation: string }[] =
