@@ -7,6 +7,7 @@ import type { Logger } from './logger';
 import type { MapsOptions } from './maps';
 import type { Mailer } from './notifications';
 import type { PaymentsClient } from './payments';
+import type { NotifyVisitEvent } from './visits';
 import type { ComponentContext, ServerComponent } from './component';
 import type { FileStore } from './storage/file-store';
 
@@ -25,6 +26,10 @@ export interface AppServices {
   documentStore: FileStore;
   /** The loan notification port's implementation (the outbox's loan notifier). */
   notifyLoanEvent: NotifyLoanEvent;
+  /** The visit notification port's implementation (the outbox's visit notifier). */
+  notifyVisitEvent: NotifyVisitEvent;
+  /** Where proctors' credential PDFs live. */
+  credentialStore: FileStore;
   maps: MapsOptions;
   /** The payment provider's SDK client, one per process. */
   paymentsClient: PaymentsClient;

@@ -18,9 +18,10 @@ import { mountWebApp } from './http/web-app';
 import type { NotifyLoanEvent } from './loans';
 import type { Logger } from './logger';
 import { mapsOptionsFromConfig, type MapsOptions } from './maps';
-import { loanNotifierFromConfig, type Mailer } from './notifications';
+import { loanNotifierFromConfig, visitNotifierFromConfig, type Mailer } from './notifications';
 import { createPaymentsClient, LocalDocumentStore, type PaymentsClient } from './payments';
 import type { FileStore } from './storage/file-store';
+import type { NotifyVisitEvent } from './visits';
 
 /** What the app is built from; `main.ts` makes the real ones, tests their own. */
 export interface AppDeps {
@@ -46,6 +47,10 @@ export interface AppDeps {
   paymentsClient?: PaymentsClient;
   /** Where loan documents live (default: `config.storage.documentDir`, a local folder). */
   documentStore?: FileStore;
+  /** Called inside every visit-changing transaction (default: the outbox's visit notifier). */
+  notifyVisitEvent?: NotifyVisitEvent;
+  /** Where credential PDFs live (default: `config.storage.credentialDir`, a local folder). */
+  credentialStore?: FileStore;
 }
 
 const requestIdPattern = /^[A-Za-z0-9._-]{1,64}$/;
@@ -99,6 +104,9 @@ export function createApp(deps: AppDeps): Express {
     photoStore: deps.photoStore ?? new LocalPhotoStore(config.storage.photoDir),
     documentStore: deps.documentStore ?? new LocalDocumentStore(config.storage.documentDir),
     notifyLoanEvent: deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now }),
+    notifyVisitEvent: deps.notifyVisitEvent ?? visitNotifierFromConfig(config, { now }),
+    credentialStore:
+      deps.credentialStore ?? new LocalDocumentStore(config.storage.credentialDir),
     maps: deps.maps ?? mapsOptionsFromConfig(config),
     paymentsClient: deps.paymentsClient ?? createPaymentsClient(config.payments),
   };

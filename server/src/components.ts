@@ -8,7 +8,9 @@ import { mapsComponent } from './maps';
 import { notificationsComponent } from './notifications';
 import { organisationsComponent } from './organisations';
 import { paymentsComponent } from './payments';
+import { proctorsComponent } from './proctors';
 import { systemComponent } from './system';
+import { visitsComponent } from './visits';
 
 /**
  * Every server component, as its front door registers it. The data source collects their
@@ -27,4 +29,6 @@ export const serverComponents: readonly AppComponent[] = [
   loansComponent,
   mapsComponent,
   paymentsComponent,
+  proctorsComponent,
+  visitsComponent,
 ];

@@ -82,6 +82,7 @@ const envSchema = z.object({
   EVALON_ROOT: z.preprocess(blankAsMissing, z.string().optional()),
   EVALON_UPLOAD_DIR: str('.data/uploads'),
   EVALON_DOCUMENT_DIR: str('.data/uploads/documents'),
+  EVALON_CREDENTIAL_DIR: str('.data/uploads/credentials'),
   EVALON_MAPS_API_KEY: z.preprocess(blankAsMissing, z.string().optional()),
   EVALON_MAPS_SCRIPT_URL: str('https://maps.googleapis.com/maps/api/js'),
   EVALON_OUTBOX_WORKER: z.preprocess(
@@ -181,6 +182,8 @@ export interface Config {
     photoDir: string;
     /** Loan documents: `EVALON_DOCUMENT_DIR`, default `.data/uploads/documents`. */
     documentDir: string;
+    /** Proctors' credential PDFs: `EVALON_CREDENTIAL_DIR`, default `.data/uploads/credentials`. */
+    credentialDir: string;
   };
   /** The maps script: a browser key for the hosted loader, or null for the offline stand-in. */
   maps: {
@@ -361,6 +364,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     storage: {
       photoDir: path.resolve(rootDir, e.EVALON_UPLOAD_DIR),
       documentDir: path.resolve(rootDir, e.EVALON_DOCUMENT_DIR),
+      credentialDir: path.resolve(rootDir, e.EVALON_CREDENTIAL_DIR),
     },
     maps: { apiKey: e.EVALON_MAPS_API_KEY ?? null, hostedScriptUrl: e.EVALON_MAPS_SCRIPT_URL },
     outbox: {

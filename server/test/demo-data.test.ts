@@ -46,6 +46,8 @@ afterAll(async () => {
 });
 
 describe('demo data', () => {
+  // Loading plays the demo visits through the visit use cases (matching every proctor): on a
+  // busy 2-core machine that takes several seconds.
   it('loads into an empty database only', async () => {
     expect(await isDatabaseEmpty(dataSource)).toBe(true);
     const summary = await loadDemoData(dataSource);
@@ -57,14 +59,18 @@ describe('demo data', () => {
       units: 37,
       maintenanceHolds: 4,
       loans: 7,
+      proctors: 8,
+      visits: 7,
     });
     const [counts] = await dataSource.query(
       'SELECT (SELECT COUNT(*) FROM organisations) AS o, (SELECT COUNT(*) FROM sites) AS s, (SELECT COUNT(*) FROM users) AS u',
     );
-    expect([Number(counts.o), Number(counts.s), Number(counts.u)]).toEqual([5, 6, 11]);
+    // The identity part's 5 organisations and 11 people, plus 5 more proctor practices and
+    // 7 more proctors.
+    expect([Number(counts.o), Number(counts.s), Number(counts.u)]).toEqual([10, 6, 18]);
     expect(await isDatabaseEmpty(dataSource)).toBe(false);
     await expect(loadDemoData(dataSource)).rejects.toThrow(/empty/);
-  });
+  }, 60_000);
 
   it('has the accounts the brief names, in the right kinds of organisation', async () => {
     const rows: { email: string; role: string; kind: string; organisation: string }[] =
@@ -222,10 +228,10 @@ describe('demo data', () => {
     expect(new Set(loans.map((l) => l.state))).toEqual(
       new Set(['requested', 'approved', 'declined', 'cancelled']),
     );
-    expect(loans.filter((l) => l.hospital === 'Velmora Health').length).toBeGreaterThanOrEqual(
+    expect(loans.filter((l) => l.hospital === 'Velmora Health').length).toBeGreaterThanOrEqual(3);
+    expect(loans.filter((l) => l.hospital === 'Klinikum Orlenbach').length).toBeGreaterThanOrEqual(
       3,
     );
-    expect(loans.filter((l) => l.hospital === 'Klinikum Orlenbach').length).toBeGreaterThanOrEqual(3);
     const holds: { kind: string; start: string; loan_state: string | null }[] =
       await dataSource.query(
         `SELECT h.kind, CAST(h.start_date AS CHAR) AS start, l.state AS loan_state
@@ -240,6 +246,38 @@ describe('demo data', () => {
     ).toEqual([]);
     const events: { n: string }[] = await dataSource.query('SELECT COUNT(*) AS n FROM loan_events');
     expect(Number(events[0]!.n)).toBe(7 + 4); // one request each, plus 2 approvals, 1 decline, 1 cancel
+  });
+
+  it('has eight proctors in the US and Germany, one licence ending mid next month, visits in several states', async () => {
+    const proctors: { country: string; n: number }[] = await dataSource.query(
+      'SELECT home_country AS country, COUNT(*) AS n FROM proctor_profiles GROUP BY home_country ORDER BY home_country',
+    );
+    expect(proctors.map((p) => [p.country, Number(p.n)])).toEqual([
+      ['DE', 3],
+      ['US', 5],
+    ]);
+    const today = new Date();
+    const next = new Date(Date.UTC(today.getUTCFullYear(), today.getUTCMonth() + 1, 15));
+    const [ending] = await dataSource.query(
+      "SELECT COUNT(*) AS n FROM proctor_credentials WHERE valid_to = ? AND kind = 'licence'",
+      [next.toISOString().slice(0, 10)],
+    );
+    expect(Number(ending.n)).toBe(1);
+    const states: { state: string }[] = await dataSource.query(
+      'SELECT DISTINCT state FROM visits ORDER BY state',
+    );
+    expect(states.map((r) => r.state)).toEqual([
+      'accepted',
+      'cancelled',
+      'completed',
+      'offered',
+      'signed_off',
+      'unfilled',
+    ]);
+    const campuses: { subdivision: string | null }[] = await dataSource.query(
+      "SELECT subdivision FROM sites WHERE kind = 'campus' ORDER BY subdivision",
+    );
+    expect(campuses.map((c) => c.subdivision)).toEqual(['DE-BW', 'US-IL', 'US-MA']);
   });
 
   it('reset empties every application table', async () => {

@@ -7,3 +7,4 @@ export * from './notifications';
 export * from './payments';
 export * from './paging';
 export * from './values/paging';
+export * from './visits';

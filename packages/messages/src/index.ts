@@ -97,3 +97,21 @@ export {
   loanUrl,
   unitLine,
 } from './wording';
+
+/** Proctoring visit e-mails and the visit's calendar invite. */
+export {
+  type VisitInviteInput,
+  type VisitMessageData,
+  type VisitSummary,
+  VISIT_CAUTIONS,
+  buildVisitInvite,
+  credentialExpiring,
+  visitAccepted,
+  visitCancelled,
+  visitEventUid,
+  visitOfferAnswered,
+  visitOffered,
+  visitSignedOff,
+  visitUnfilled,
+  visitUrl,
+} from './visits';

@@ -26,6 +26,14 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
 
 /** Tables the application owns (everything but TypeORM's `migrations`), children first. */
 export const appTables = [
+  'visit_sign_offs',
+  'visit_cases',
+  'visit_events',
+  'visit_offers',
+  'visits',
+  'proctor_credentials',
+  'proctor_experience',
+  'proctor_profiles',
   'loan_documents',
   'refunds',
   'payment_events',

@@ -24,7 +24,8 @@ async function main(): Promise<void> {
     console.log(
       `[evalon] demo data loaded into ${config.db.database}: ${summary.organisations} organisations, ` +
         `${summary.sites} sites, ${summary.people} people, ${summary.models} models, ${summary.units} units, ` +
-        `${summary.loans} loans, ${summary.maintenanceHolds} maintenance holds ` +
+        `${summary.loans} loans, ${summary.maintenanceHolds} maintenance holds, ` +
+        `${summary.proctors ?? 0} proctor profiles, ${summary.visits ?? 0} proctoring visits ` +
         `(password for every demo account: ${demoPassword})`,
     );
   } finally {

@@ -14,6 +14,7 @@ import { insertOrganisation, insertSite } from '../organisations';
 import { appTables } from '../database/data-source';
 import { demoOrganisations, demoPassword } from './demo-data';
 import { loadDemoCatalog, type DemoCatalogSummary } from './load-demo-catalog';
+import { loadDemoProctoring } from './load-demo-proctors';
 
 /** Whether the database holds no organisations and no people yet. */
 export async function isDatabaseEmpty(dataSource: DataSource): Promise<boolean> {
@@ -39,6 +40,9 @@ export async function truncateAppTables(dataSource: DataSource): Promise<void> {
 
 /** What was loaded, for the CLI to report. */
 export interface DemoSummary extends DemoCatalogSummary {
+  /** Proctors with profiles, and visits. */
+  proctors?: number;
+  visits?: number;
   organisations: number;
   sites: number;
   people: number;
@@ -79,7 +83,9 @@ export async function loadDemoData(
       );
       summary.organisations++;
       for (const site of org.sites) {
-        await insertSite(m, { organisationId, ...site }, now);
+        // The campus's ISO 3166-2 subdivision decides which licences cover a visit there.
+        const subdivision = site.region ? `${site.country}-${site.region}` : null;
+        await insertSite(m, { organisationId, ...site, subdivision }, now);
         summary.sites++;
       }
       let inviterId: number | null = null;
@@ -151,5 +157,6 @@ export async function loadDemoData(
   });
   // The catalogue and loans go through the product's own use cases, each in its transaction.
   Object.assign(summary, await loadDemoCatalog(dataSource, now, depositWindowMs));
+  Object.assign(summary, await loadDemoProctoring(dataSource, now, passwordHash));
   return summary;
 }

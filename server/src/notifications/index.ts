@@ -8,6 +8,11 @@ import { OutboxCommitSubscriber } from './domain/outbox';
 import { createOutboxWorker } from './domain/outbox-worker';
 
 export { loanNotifierFromConfig } from './domain/loan-notifications';
+export {
+  createVisitNotifier,
+  credentialNotifierFromConfig,
+  visitNotifierFromConfig,
+} from './domain/visit-notifications';
 export { SmtpMailer, type Mailer } from './domain/mailer';
 export { enqueueEmail } from './domain/outbox';
 export { createOutboxWorker } from './domain/outbox-worker';

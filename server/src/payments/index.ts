@@ -100,3 +100,4 @@ export const paymentsComponent: AppComponent = {
     ];
   },
 };
+export { isPdf, newDocumentKey } from './domain/documents';

@@ -114,6 +114,18 @@ export const routes: Routes = [
         canActivate: [roleGuard('admin')],
         loadChildren: () => import('./features/outbox/outbox.routes').then((m) => m.outboxRoutes),
       },
+      {
+        // Hospital people list and ask; proctors open single visits offered to them.
+        path: 'visits',
+        canActivate: [roleGuard('buyer', 'clinician', 'proctor', 'admin')],
+        loadChildren: () => import('./features/visits/visits.routes').then((m) => m.visitsRoutes),
+      },
+      {
+        path: 'proctor',
+        canActivate: [roleGuard('proctor')],
+        loadChildren: () =>
+          import('./features/proctor/proctor.routes').then((m) => m.proctorRoutes),
+      },
       ...placeholderRoutes,
       {
         path: '**',

@@ -36,6 +36,8 @@ export interface SiteRow {
   postalCode: string | null;
   region: string | null;
   country: string;
+  /** ISO 3166-2 subdivision (`US-IL`, `DE-BY`): the jurisdiction of visits to the site. */
+  subdivision?: string | null;
   latitude: number;
   longitude: number;
   /** IANA zone, e.g. `America/Chicago`. */
@@ -60,6 +62,7 @@ export const SiteEntity = new EntitySchema<SiteRow>({
     postalCode: { type: 'varchar', length: 20, name: 'postal_code', nullable: true },
     region: { type: 'varchar', length: 120, nullable: true },
     country: { type: 'char', length: 2 },
+    subdivision: { type: 'varchar', length: 6, nullable: true },
     latitude: { type: 'decimal', precision: 9, scale: 6, transformer: decimalAsNumber },
     longitude: { type: 'decimal', precision: 9, scale: 6, transformer: decimalAsNumber },
     timeZone: { type: 'varchar', length: 64, name: 'time_zone' },

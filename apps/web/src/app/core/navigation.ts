@@ -31,14 +31,6 @@ export interface NavEntry {
  */
 export const plannedDestinations: readonly Destination[] = [
   {
-    path: 'proctoring',
-    label: 'Proctoring',
-    icon: 'supervisor_account',
-    roles: ['buyer'],
-    summary:
-      'Ask for an experienced proctor for your surgeons’ first cases and see who has accepted and when they arrive.',
-  },
-  {
     path: 'schedule',
     label: 'Schedule',
     icon: 'event',
@@ -53,22 +45,6 @@ export const plannedDestinations: readonly Destination[] = [
     roles: ['clinician'],
     summary:
       'Record each evaluation case, de-identified, so the evaluation report builds itself as you go.',
-  },
-  {
-    path: 'visit-offers',
-    label: 'Visit offers',
-    icon: 'mark_email_unread',
-    roles: ['proctor'],
-    summary:
-      'Accept or decline requests to supervise first cases, with the dates, the hospital and the platform in one view.',
-  },
-  {
-    path: 'credentials',
-    label: 'Credentials',
-    icon: 'badge',
-    roles: ['proctor'],
-    summary:
-      'Keep your licences, credentials and availability current so hospitals can ask you for the right visits.',
   },
   {
     path: 'shipments',
@@ -99,6 +75,31 @@ export const plannedDestinations: readonly Destination[] = [
  * roles as its navigation entry.
  */
 export const builtDestinations: readonly Destination[] = [
+  {
+    path: 'visits',
+    label: 'Proctoring',
+    icon: 'supervisor_account',
+    // Clinicians ask for proctors too (they know the case days); both follow the visits.
+    roles: ['buyer', 'clinician'],
+    summary:
+      'Ask for an experienced proctor for your surgeons’ first cases, see who was asked and who accepted, and the cases they signed off.',
+  },
+  {
+    path: 'proctor',
+    label: 'Visit offers',
+    icon: 'mark_email_unread',
+    roles: ['proctor'],
+    summary:
+      'Accept or decline requests to supervise first cases, with the dates, the hospital and the platform in one view.',
+  },
+  {
+    path: 'proctor/credentials',
+    label: 'Credentials',
+    icon: 'badge',
+    roles: ['proctor'],
+    summary:
+      'Keep your licences, credentials and availability current so hospitals can ask you for the right visits.',
+  },
   {
     path: 'equipment',
     label: 'Find equipment',
@@ -164,11 +165,11 @@ export const builtDestinations: readonly Destination[] = [
 const navigationOrder: readonly string[] = [
   'equipment',
   'loans',
-  'proctoring',
+  'visits',
   'schedule',
   'case-log',
-  'visit-offers',
-  'credentials',
+  'proctor',
+  'proctor/credentials',
   'shipments',
   'catalog',
   'approvals',

@@ -240,7 +240,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       title: 'Proctoring visits',
       emptyHeading: 'No proctoring visits booked',
       emptyMessage: 'Once a loan is approved, ask for a proctor to supervise the first cases.',
-      action: { label: 'Open proctoring', link: '/proctoring' },
+      action: { label: 'Open proctoring', link: '/visits' },
     },
   ],
   clinician: [
@@ -271,7 +271,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       title: 'Visit offers',
       emptyHeading: 'No visit offers waiting',
       emptyMessage: 'Hospitals’ requests for you to supervise first cases will appear here.',
-      action: { label: 'Open visit offers', link: '/visit-offers' },
+      action: { label: 'Open visit offers', link: '/proctor' },
     },
     {
       key: 'credentials',
@@ -280,7 +280,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyHeading: 'Keep your credentials current',
       emptyMessage:
         'Hospitals can only ask you for visits where your credentials are recorded and still valid.',
-      action: { label: 'Review credentials', link: '/credentials' },
+      action: { label: 'Review credentials', link: '/proctor/credentials' },
     },
   ],
   coordinator: [

@@ -171,6 +171,28 @@ export class LoanPage implements OnInit {
   protected readonly depotZones = computed(
     () => new Map(this.sites().map((s) => [s.id, s.timeZone] as const)),
   );
+  /**
+   * Query parameters of "Ask for a proctor" on a confirmed (or later, live) loan: its campus,
+   * first model and case days prefill the visit request; null when a proctor cannot be asked.
+   */
+  protected readonly proctorRequest = computed(() => {
+    const loan = this.loan();
+    const user = this.sessionStore.user();
+    const hospitalPerson = user?.memberships.some(
+      (m) =>
+        m.organisationId === loan?.hospitalId && (m.role === 'buyer' || m.role === 'clinician'),
+    );
+    if (!loan || !hospitalPerson || !['confirmed', 'shipped', 'delivered'].includes(loan.state)) {
+      return null;
+    }
+    return {
+      loanId: loan.id,
+      siteId: loan.siteId,
+      modelId: loan.units[0]?.modelId,
+      from: loan.useFrom,
+      to: loan.useTo,
+    };
+  });
   /** Whether the server lets this person cancel the loan now. */
   protected readonly canCancel = computed(
     () => this.loan()?.allowedActions?.includes('cancel') ?? false,
