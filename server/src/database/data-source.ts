@@ -24,7 +24,10 @@ export const migrations: MigrationClass[] = serverComponents
 
 const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
 
-/** Tables the application owns (everything but TypeORM's `migrations`), children first. */
+/**
+ * Tables the application owns, children first: everything but TypeORM's `migrations` and
+ * `typeorm_metadata` (which the demo data loader must not empty).
+ */
 export const appTables = [
   'visit_sign_offs',
   'visit_cases',

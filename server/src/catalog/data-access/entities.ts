@@ -11,6 +11,8 @@ export interface LenderSettingsRow {
   firstLoanLeadDays: number;
   decontaminationDays: number;
   turnaroundDays: number;
+  /** Supervised cases a proctor needs on a model of this lender (the column default is 20). */
+  minSupervisedCases: number;
   updatedAt: Date;
   updatedByUserId: number | null;
 }
@@ -26,6 +28,12 @@ export const LenderSettingsEntity = new EntitySchema<LenderSettingsRow>({
     firstLoanLeadDays: { type: 'tinyint', unsigned: true, name: 'first_loan_lead_days' },
     decontaminationDays: { type: 'tinyint', unsigned: true, name: 'decontamination_days' },
     turnaroundDays: { type: 'tinyint', unsigned: true, name: 'turnaround_days' },
+    minSupervisedCases: {
+      type: 'smallint',
+      unsigned: true,
+      name: 'min_supervised_cases',
+      default: 20,
+    },
     updatedAt: instantColumn('updated_at'),
     updatedByUserId: refColumn('updated_by_user_id', true),
   },

@@ -1,6 +1,12 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
 
 /**
+ * `visit_offers.live_visit_id`: the visit while the offer is live, NULL otherwise. Written once
+ * here for the column and for TypeORM's record of it (the entity declares the same text).
+ */
+const LIVE_OFFER_EXPRESSION = "IF(state = 'offered', visit_id, NULL)";
+
+/**
  * Proctoring visits: proctor profiles with experience per model, credentials (with a PDF),
  * availability (RFC 5545 recurrences in the proctor's zone), visits with their offers (one
  * proctor at a time), event trail, supervised case records and sign-offs. Sites get an ISO
@@ -146,7 +152,7 @@ export class Proctoring1765065600000 implements MigrationInterface {
         deadline_at DATETIME(3) NULL,
         answered_at DATETIME(3) NULL,
         reason TEXT NULL,
-        live_visit_id INT UNSIGNED AS (IF(state = 'offered', visit_id, NULL)) PERSISTENT,
+        live_visit_id INT UNSIGNED AS (${LIVE_OFFER_EXPRESSION}) PERSISTENT,
         PRIMARY KEY (id),
         UNIQUE KEY uq_visit_offers_proctor (visit_id, proctor_user_id),
         UNIQUE KEY uq_visit_offers_live (live_visit_id),
@@ -158,6 +164,25 @@ export class Proctoring1765065600000 implements MigrationInterface {
         CONSTRAINT fk_visit_offers_proctor FOREIGN KEY (proctor_user_id) REFERENCES proctor_profiles (user_id),
         CONSTRAINT ck_visit_offers_state CHECK (state IN ('queued', 'offered', 'accepted', 'declined', 'expired', 'withdrawn', 'skipped'))
       ) ENGINE=InnoDB DEFAULT CHARSET=utf8mb4 COLLATE=utf8mb4_unicode_ci`);
+
+    // TypeORM's own table, in the shape its schema builder gives it: it reads a generated column's
+    // expression from here, not from information_schema (which MariaDB reformats), one row per
+    // column keyed by database (schema), table and name. IF NOT EXISTS: TypeORM's migration runner
+    // already makes it before running migrations when an entity has a generated column.
+    await q.query(`
+      CREATE TABLE IF NOT EXISTS typeorm_metadata (
+        \`type\` VARCHAR(255) NOT NULL,
+        \`database\` VARCHAR(255) NULL,
+        \`schema\` VARCHAR(255) NULL,
+        \`table\` VARCHAR(255) NULL,
+        \`name\` VARCHAR(255) NULL,
+        \`value\` TEXT NULL
+      ) ENGINE=InnoDB DEFAULT CHARSET=utf8mb4 COLLATE=utf8mb4_unicode_ci`);
+    await q.query(
+      `INSERT INTO typeorm_metadata (\`type\`, \`database\`, \`schema\`, \`table\`, \`name\`, \`value\`)
+       VALUES ('GENERATED_COLUMN', NULL, DATABASE(), 'visit_offers', 'live_visit_id', ?)`,
+      [LIVE_OFFER_EXPRESSION],
+    );
 
     await q.query(`
       CREATE TABLE visit_events (
@@ -215,6 +240,7 @@ export class Proctoring1765065600000 implements MigrationInterface {
   }
 
   async down(q: QueryRunner): Promise<void> {
+    await q.query('DROP TABLE IF EXISTS typeorm_metadata');
     for (const table of [
       'visit_sign_offs',
       'visit_cases',

@@ -9,6 +9,11 @@ export interface OrganisationRow {
   kind: OrganisationKind;
   /** ISO 3166-1 alpha-2. */
   country: string;
+  /**
+   * Cases performed under supervision before a proctor may sign a trainee off (hospitals; the
+   * column default, 3, when an insert leaves it out).
+   */
+  signOffThreshold?: number;
   createdAt: Date;
 }
 
@@ -20,6 +25,7 @@ export const OrganisationEntity = new EntitySchema<OrganisationRow>({
     name: { type: 'varchar', length: 200 },
     kind: { type: 'varchar', length: 32 },
     country: { type: 'char', length: 2 },
+    signOffThreshold: { type: 'tinyint', unsigned: true, name: 'sign_off_threshold', default: 3 },
     createdAt: instantColumn('created_at'),
   },
   indices: [{ name: 'uq_organisations_name', columns: ['name'], unique: true }],

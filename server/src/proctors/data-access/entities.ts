@@ -65,6 +65,28 @@ export const ProctorProfileEntity = new EntitySchema<ProctorProfileRow>({
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
+  indices: [
+    { name: 'ix_proctor_profiles_org', columns: ['organisationId'] },
+    { name: 'ix_proctor_profiles_updated', columns: ['updatedAt'] },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_proctor_profiles_org',
+      target: 'Organisation',
+      columnNames: ['organisationId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_proctor_profiles_user',
+      target: 'User',
+      columnNames: ['userId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `proctor_experience`: supervised cases on one model. */
@@ -81,9 +103,28 @@ export const ProctorExperienceEntity = new EntitySchema<ProctorExperienceRow>({
   columns: {
     proctorUserId: { type: 'int', unsigned: true, primary: true, name: 'proctor_user_id' },
     modelId: { type: 'int', unsigned: true, primary: true, name: 'model_id' },
-    declaredCases: { type: 'int', unsigned: true, name: 'declared_cases' },
-    recordedCases: { type: 'int', unsigned: true, name: 'recorded_cases' },
+    declaredCases: { type: 'int', unsigned: true, name: 'declared_cases', default: 0 },
+    recordedCases: { type: 'int', unsigned: true, name: 'recorded_cases', default: 0 },
   },
+  indices: [{ name: 'ix_proctor_experience_model', columns: ['modelId'] }],
+  foreignKeys: [
+    {
+      name: 'fk_proctor_experience_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_proctor_experience_proctor',
+      target: 'ProctorProfile',
+      columnNames: ['proctorUserId'],
+      referencedColumnNames: ['userId'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `proctor_credentials`. Dates are calendar days of the issuing jurisdiction. */
@@ -121,4 +162,19 @@ export const ProctorCredentialEntity = new EntitySchema<ProctorCredentialRow>({
     expiryWarnedAt: instantColumn('expiry_warned_at', true),
     createdAt: instantColumn('created_at'),
   },
+  indices: [
+    { name: 'ix_proctor_credentials_proctor', columns: ['proctorUserId', 'validTo'] },
+    { name: 'ix_proctor_credentials_valid_to', columns: ['validTo'] },
+    { name: 'uq_proctor_credentials_storage_key', columns: ['storageKey'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_proctor_credentials_proctor',
+      target: 'ProctorProfile',
+      columnNames: ['proctorUserId'],
+      referencedColumnNames: ['userId'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });

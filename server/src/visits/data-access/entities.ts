@@ -70,11 +70,74 @@ export const VisitEntity = new EntitySchema<VisitRow>({
       transformer: bigintAsNumber,
     },
     feeCurrency: { type: 'char', length: 3, name: 'fee_currency', nullable: true },
-    inviteSequence: { type: 'int', unsigned: true, name: 'invite_sequence' },
+    inviteSequence: { type: 'int', unsigned: true, name: 'invite_sequence', default: 0 },
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
+  indices: [
+    { name: 'ix_visits_hospital_state', columns: ['hospitalId', 'state'] },
+    { name: 'ix_visits_loan', columns: ['loanId'] },
+    {
+      name: 'ix_visits_proctor_busy',
+      columns: ['proctorUserId', 'state', 'busyFrom', 'busyTo'],
+    },
+    { name: 'ix_visits_updated', columns: ['updatedAt'] },
+    { name: 'uq_visits_reference', columns: ['reference'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_visits_hospital',
+      target: 'Organisation',
+      columnNames: ['hospitalId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visits_loan',
+      target: 'Loan',
+      columnNames: ['loanId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visits_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visits_proctor',
+      target: 'ProctorProfile',
+      columnNames: ['proctorUserId'],
+      referencedColumnNames: ['userId'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visits_requested_by',
+      target: 'User',
+      columnNames: ['requestedByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visits_site',
+      target: 'Site',
+      columnNames: ['siteId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
+
+/** `visit_offers.live_visit_id`, as the proctoring migration declares it. */
+const LIVE_OFFER_EXPRESSION = "IF(state = 'offered', visit_id, NULL)";
 
 /** A row of `visit_offers`: one candidate of a visit, in offer order. */
 export interface VisitOfferRow {
@@ -88,6 +151,12 @@ export interface VisitOfferRow {
   deadlineAt: Date | null;
   answeredAt: Date | null;
   reason: string | null;
+  /**
+   * `visit_id` while the offer is live, NULL otherwise (computed by the database). Its unique key
+   * is the second guard, behind the visit lock, that a visit never has two live offers. Never
+   * written, and not selected: the code reads `state`.
+   */
+  liveVisitId?: number | null;
 }
 
 export const VisitOfferEntity = new EntitySchema<VisitOfferRow>({
@@ -104,7 +173,47 @@ export const VisitOfferEntity = new EntitySchema<VisitOfferRow>({
     deadlineAt: instantColumn('deadline_at', true),
     answeredAt: instantColumn('answered_at', true),
     reason: { type: 'text', nullable: true },
+    // The expression is compared as text with the row the proctoring migration put in
+    // `typeorm_metadata` (TypeORM reads it from there, not from information_schema): keep the two
+    // identical. STORED is TypeORM's name for MariaDB's PERSISTENT.
+    liveVisitId: {
+      type: 'int',
+      unsigned: true,
+      name: 'live_visit_id',
+      nullable: true,
+      generatedType: 'STORED',
+      asExpression: LIVE_OFFER_EXPRESSION,
+      insert: false,
+      update: false,
+      select: false,
+    },
   },
+  indices: [
+    { name: 'ix_visit_offers_deadline', columns: ['state', 'deadlineAt'] },
+    { name: 'ix_visit_offers_offered', columns: ['offeredAt'] },
+    { name: 'ix_visit_offers_proctor_offered', columns: ['proctorUserId', 'offeredAt'] },
+    { name: 'ix_visit_offers_proctor_state', columns: ['proctorUserId', 'state'] },
+    { name: 'uq_visit_offers_live', columns: ['liveVisitId'], unique: true },
+    { name: 'uq_visit_offers_proctor', columns: ['visitId', 'proctorUserId'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_visit_offers_proctor',
+      target: 'ProctorProfile',
+      columnNames: ['proctorUserId'],
+      referencedColumnNames: ['userId'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_offers_visit',
+      target: 'Visit',
+      columnNames: ['visitId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `visit_events`: one thing that happened to a visit. */
@@ -134,6 +243,25 @@ export const VisitEventEntity = new EntitySchema<VisitEventRow>({
     proctorUserId: refColumn('proctor_user_id', true),
     reason: { type: 'text', nullable: true },
   },
+  indices: [{ name: 'ix_visit_events_visit', columns: ['visitId', 'id'] }],
+  foreignKeys: [
+    {
+      name: 'fk_visit_events_actor',
+      target: 'User',
+      columnNames: ['actorUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_events_visit',
+      target: 'Visit',
+      columnNames: ['visitId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `visit_cases`: one supervised, de-identified case. */
@@ -163,6 +291,36 @@ export const VisitCaseEntity = new EntitySchema<VisitCaseRow>({
     recordedByUserId: refColumn('recorded_by_user_id'),
     createdAt: instantColumn('created_at'),
   },
+  indices: [
+    { name: 'ix_visit_cases_trainee', columns: ['traineeUserId'] },
+    { name: 'uq_visit_cases_number', columns: ['visitId', 'caseNumber'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_visit_cases_recorded_by',
+      target: 'User',
+      columnNames: ['recordedByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_cases_trainee',
+      target: 'User',
+      columnNames: ['traineeUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_cases_visit',
+      target: 'Visit',
+      columnNames: ['visitId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
 
 /** A row of `visit_sign_offs`: the proctor's sign-off of one trainee. */
@@ -190,4 +348,33 @@ export const VisitSignOffEntity = new EntitySchema<VisitSignOffRow>({
     statement: { type: 'text' },
     signedAt: instantColumn('signed_at'),
   },
+  indices: [
+    { name: 'uq_visit_sign_offs_trainee', columns: ['visitId', 'traineeUserId'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_visit_sign_offs_proctor',
+      target: 'User',
+      columnNames: ['proctorUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_sign_offs_trainee',
+      target: 'User',
+      columnNames: ['traineeUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_sign_offs_visit',
+      target: 'Visit',
+      columnNames: ['visitId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
 });
