@@ -38,6 +38,14 @@ import {
   paymentWebhookRoutes,
   type PaymentsClient,
 } from './payments';
+import {
+  carrierWebhookRoutes,
+  createShipmentsDeps,
+  loanInspectionRoutes,
+  shipmentRoutes,
+  withShipmentCreation,
+  type CarrierClient,
+} from './shipments';
 
 /** What the app is built from; `main.ts` makes the real ones, tests their own. */
 export interface AppDeps {
@@ -63,6 +71,8 @@ export interface AppDeps {
   paymentsClient?: PaymentsClient;
   /** Where loan documents live (default: `EVALON_DOCUMENT_DIR`, a local folder). */
   documentStore?: PhotoStore;
+  /** The carrier adapter (default: the local carrier stand-in from `EVALON_CARRIER_*`). */
+  carrier?: CarrierClient;
 }
 
 const requestIdPattern = /^[A-Za-z0-9._-]{1,64}$/;
@@ -115,6 +125,11 @@ export function createApp(deps: AppDeps): Express {
   };
 
   const catalogue: CatalogueEntry[] = [];
+  // A confirmed loan gets its outbound shipments in the confirming transaction.
+  const confirmations = withShipmentCreation(
+    loanNotifierFromConfig(config, { now: identityDeps.now }),
+    identityDeps.now,
+  );
   const paymentsDeps = createPaymentsDeps({
     config,
     dataSource,
@@ -122,11 +137,22 @@ export function createApp(deps: AppDeps): Express {
     now: identityDeps.now,
     provider: deps.paymentsClient,
     documentStore: deps.documentStore,
+    notifyLoanEvent: confirmations,
+  });
+  const shipmentsDeps = createShipmentsDeps({
+    config,
+    dataSource,
+    logger,
+    now: identityDeps.now,
+    payments: paymentsDeps,
+    carrier: deps.carrier,
   });
   // The payment provider's webhook needs its raw body (the signature covers the exact bytes) and
   // no session or CSRF token: mounted before the JSON parser and the session.
   const webhooks = paymentWebhookRoutes(paymentsDeps, catalogue);
   app.use(webhooks.basePath, webhooks.router);
+  const carrierHooks = carrierWebhookRoutes(shipmentsDeps, catalogue);
+  app.use(carrierHooks.basePath, carrierHooks.router);
 
   // Everything under /api: JSON bodies, cookies, the session, the signed-in person, CSRF.
   app.use('/api', express.json({ limit: '100kb' }));
@@ -154,6 +180,7 @@ export function createApp(deps: AppDeps): Express {
   const loanDeps = {
     ...availabilityDeps,
     // Loan e-mails and in-app notifications, written in the loan's own transaction.
+    // Loan e-mails and in-app notifications, written in the loan's own transaction.
     notifyLoanEvent:
       deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now: identityDeps.now }),
   };
@@ -174,6 +201,8 @@ export function createApp(deps: AppDeps): Express {
     ...mapsRoutes(deps.maps ?? mapsOptionsFromEnv(), catalogue),
     loanPaymentRoutes(paymentsDeps, catalogue),
     creditAgreementRoutes(paymentsDeps, catalogue),
+    shipmentRoutes(shipmentsDeps, catalogue),
+    loanInspectionRoutes(shipmentsDeps, catalogue),
   ];
   for (const r of routers) app.use(r.basePath, r.router);
   app.use('/api', apiNotFound);

@@ -8,6 +8,7 @@ import { createLogger } from './logger';
 import { SmtpMailer } from './notifications/mailer';
 import { createOutboxWorker } from './notifications/outbox-worker';
 import { createPaymentsClient, createPaymentsDeps, startDepositExpiryJob } from './payments';
+import { createShipmentsDeps, startShipmentAlertsJob } from './shipments';
 
 const sessionSweepIntervalMs = 15 * 60_000;
 
@@ -53,6 +54,21 @@ async function main(): Promise<void> {
   if (expiryJob) {
     logger.info({ intervalMs: config.payments.expiryIntervalMs }, 'deposit expiry job started');
   }
+  // Shipment alerts (at risk, overdue, return reminders); FOR UPDATE SKIP LOCKED, so any
+  // number of processes may run it. Off with EVALON_SHIPMENT_ALERTS_INTERVAL_MS=0.
+  const alertsIntervalMs = Number(process.env.EVALON_SHIPMENT_ALERTS_INTERVAL_MS ?? 60_000);
+  const alertsJob =
+    alertsIntervalMs > 0
+      ? startShipmentAlertsJob(
+          createShipmentsDeps({
+            config,
+            dataSource,
+            logger,
+            payments: createPaymentsDeps({ config, dataSource, logger, provider: paymentsClient }),
+          }),
+          alertsIntervalMs,
+        )
+      : null;
   // The outbox worker sends what transactions enqueued; any number of processes may run one.
   const outboxWorker = config.outbox.worker
     ? createOutboxWorker(config, { dataSource, mailer, logger })
@@ -99,6 +115,7 @@ async function main(): Promise<void> {
     const workerStopped = Promise.all([
       outboxWorker?.stop() ?? Promise.resolve(),
       expiryJob?.stop() ?? Promise.resolve(),
+      alertsJob?.stop() ?? Promise.resolve(),
     ]).catch((err: unknown) => logger.warn({ err }, 'background work did not stop cleanly'));
     server.close(() => {
       void workerStopped.then(() => {

@@ -10,7 +10,6 @@ import {
   createTracking,
   DEFAULT_CHAOS,
   DEFAULT_SETTINGS,
-  newId,
   seeded,
   STATUSES,
 } from './tracking.mjs';

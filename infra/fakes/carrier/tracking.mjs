@@ -96,7 +96,7 @@ export function createTracking(ctx) {
         },
         body: payload,
         redirect: 'manual',
-        signal: AbortSignal.timeout(ctx.settings.timeoutMs),
+        signal: globalThis.AbortSignal.timeout(ctx.settings.timeoutMs),
       });
       record.status = res.status;
       record.body = (await res.text()).slice(0, 200);

@@ -5,3 +5,4 @@ export * from './loans';
 export * from './system';
 export * from './notifications';
 export * from './payments';
+export * from './shipments';

@@ -88,3 +88,12 @@ export {
   loanUrl,
   unitLine,
 } from './wording';
+
+/** Shipment alerts and the deposit statement. */
+export {
+  type DepositStatementData,
+  type ShipmentAlertData,
+  type ShipmentAlertKind,
+  depositStatement,
+  shipmentAlert,
+} from './shipments';

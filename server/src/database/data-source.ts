@@ -25,6 +25,7 @@ import { Catalog1764720000000 } from './migrations/1764720000000-catalog';
 import { Loans1764720060000 } from './migrations/1764720060000-loans';
 import { HoldsHospital1764979200000 } from './migrations/1764979200000-holds-hospital';
 import { Payments1764892800000 } from './migrations/1764892800000-payments';
+import { Shipments1765152000000, shipmentEntities, shipmentTables } from '../shipments';
 
 /** Every entity, listed by hand because the server is bundled (no globbing at run time). */
 export const entities: EntitySchema<never>[] = [
@@ -46,6 +47,7 @@ export const entities: EntitySchema<never>[] = [
   LoanUnitEntity,
   HoldEntity,
   LoanEventEntity,
+  ...shipmentEntities,
 ] as EntitySchema<never>[];
 
 /** Every migration in order, listed by hand for the same reason. */
@@ -56,10 +58,12 @@ export const migrations: (new () => MigrationInterface)[] = [
   OutboxNotifications1764806400000,
   Payments1764892800000,
   HoldsHospital1764979200000,
+  Shipments1765152000000,
 ];
 
 /** Tables the application owns (everything but TypeORM's `migrations`), children first. */
 export const appTables = [
+  ...shipmentTables,
   'loan_documents',
   'refunds',
   'payment_events',
