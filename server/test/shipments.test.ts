@@ -2,28 +2,12 @@
 // stand-in (both child processes on free ports). The app listens on a loopback port so that
 // both stand-ins' signed webhooks reach it.
 import crypto from 'node:crypto';
-import { toGtin14 } from '@evalon/contracts';
-import { addCalendarDays } from '@evalon/scheduling';
 import { startTestApp, type TestApp } from './helpers/app';
 import { startCarrier, carrierWebhookSecret, type RunningCarrier } from './helpers/carrier';
-import {
-  countRows,
-  makeHospital,
-  makeLender,
-  makeModel,
-  makePlace,
-  makeUnit,
-  mondayAfter,
-  places,
-  type TestHospital,
-  type TestLender,
-} from './helpers/catalog';
-import { signedInClient, type Client } from './helpers/http';
+import { countRows, makePlace, makeUnit, places } from './helpers/catalog';
 import {
   fakeState,
-  flushWebhooks,
   listen,
-  payOnHostedPage,
   registerWebhook,
   startPaymentsFake,
   type RunningFake,
@@ -31,6 +15,7 @@ import {
 import { createLogger } from '../src/logger';
 import { createPaymentsDeps } from '../src/payments';
 import { createShipmentsDeps, runShipmentAlerts } from '../src/shipments';
+import { shipmentKit } from './helpers/shipments';
 
 jest.setTimeout(90_000);
 
@@ -60,95 +45,11 @@ afterAll(async () => {
   await carrier?.stop();
 });
 
-const sign = (person: { email: string; password: string }) =>
-  signedInClient(t.app, person.email, person.password);
-const post = (c: Client, path: string, body: object = {}) =>
-  c.agent.post(path).set('X-XSRF-TOKEN', c.csrf).send(body);
-
-interface World {
-  lender: TestLender;
-  hospital: TestHospital;
-  buyer: Client;
-  fleet: Client;
-  coordinator: Client;
-}
-
-async function world(): Promise<World> {
-  const lender = await makeLender(t.dataSource, places.eastDepot);
-  const hospital = await makeHospital(t.dataSource, places.bostonCampus);
-  return {
-    lender,
-    hospital,
-    buyer: await sign(hospital.buyer),
-    fleet: await sign(lender.fleet),
-    coordinator: await sign(lender.coordinator),
-  };
-}
-
-/** A model with a packing list of two lines (GTIN check digits computed by the GS1 rule). */
-async function modelWithPackingList(lenderId: number) {
-  const modelId = await makeModel(t.dataSource, lenderId);
-  const fibre = toGtin14(`0${String(Math.floor(Math.random() * 1e12)).padStart(12, '0')}`);
-  const drape = toGtin14(`0${String(Math.floor(Math.random() * 1e12)).padStart(12, '0')}`);
-  await t.dataSource.query(
-    `INSERT INTO model_packing_items (model_id, position, name, gtin, quantity, serialised)
-     VALUES (?, 1, 'Laser fibre 365 µm', ?, 2, FALSE), (?, 2, 'Foot switch', ?, 1, TRUE)`,
-    [modelId, fibre, modelId, drape],
-  );
-  return { modelId, fibre, drape };
-}
-
-/** Requests, approves and pays (card, charge now) a loan of `unitIds`; answers when confirmed. */
-async function confirmedLoan(w: World, unitIds: number[], daysAhead = 60) {
-  const useFrom = mondayAfter(daysAhead);
-  const loan = (
-    await post(w.buyer, '/api/loans', {
-      siteId: w.hospital.campusId,
-      unitIds,
-      useFrom,
-      useTo: addCalendarDays(useFrom, 2),
-    }).expect(201)
-  ).body.loan;
-  await post(w.fleet, `/api/loans/${loan.id}/approve`).expect(200);
-  const checkout = await post(w.buyer, `/api/loans/${loan.id}/deposit`, { method: 'card' }).expect(
-    200,
-  );
-  await payOnHostedPage(checkout.body.checkoutUrl);
-  await flushWebhooks(fake);
-  expect(await loanState(loan.id)).toBe('confirmed');
-  return {
-    id: loan.id as number,
-    reference: loan.reference as string,
-    deposit: loan.deposit.amount as number,
-  };
-}
-
-const loanState = async (id: number) =>
-  (await t.dataSource.query('SELECT state FROM loans WHERE id = ?', [id]))[0].state as string;
-const legsOf = async (loanId: number) =>
-  t.dataSource.query(
-    'SELECT id, direction, state, depot_id, tracking_number FROM shipments WHERE loan_id = ? ORDER BY id',
-    [loanId],
-  ) as Promise<
-    {
-      id: number;
-      direction: string;
-      state: string;
-      depot_id: number;
-      tracking_number: string | null;
-    }[]
-  >;
-
-/**
- * Marks an outbound leg packed the way the pack step leaves it (every line complete). Packing
- * through scans is covered by the scan tests; these tests start after it.
- */
-async function packed(shipmentId: number) {
-  await t.dataSource.query('UPDATE shipment_items SET scanned = quantity WHERE shipment_id = ?', [
-    shipmentId,
-  ]);
-  await t.dataSource.query("UPDATE shipments SET state = 'packed' WHERE id = ?", [shipmentId]);
-}
+const kit = shipmentKit(
+  () => t,
+  () => fake,
+);
+const { post, world, modelWithPackingList, confirmedLoan, loanState, legsOf, packed } = kit;
 
 describe('legs of a confirmed loan', () => {
   it('one outbound leg per depot with the checklist from the packing lists, visible to both sides only', async () => {
