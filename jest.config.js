@@ -63,6 +63,8 @@ module.exports = {
       rootDir: __dirname,
       testEnvironment: 'node',
       testMatch: ['<rootDir>/tests/guards/**/*.test.ts'],
+      // The retired-names list is a CommonJS module shared with the screenshot script.
+      moduleFileExtensions: ['ts', 'js', 'cjs', 'json'],
       transform: tsTransform,
     },
     {
