@@ -41,6 +41,8 @@ import {
 import {
   carrierWebhookRoutes,
   createShipmentsDeps,
+  gs1Routes,
+  shipmentSettingsRoutes,
   loanInspectionRoutes,
   shipmentRoutes,
   withShipmentCreation,
@@ -203,6 +205,8 @@ export function createApp(deps: AppDeps): Express {
     creditAgreementRoutes(paymentsDeps, catalogue),
     shipmentRoutes(shipmentsDeps, catalogue),
     loanInspectionRoutes(shipmentsDeps, catalogue),
+    gs1Routes(shipmentsDeps, catalogue),
+    shipmentSettingsRoutes(shipmentsDeps, catalogue),
   ];
   for (const r of routers) app.use(r.basePath, r.router);
   app.use('/api', apiNotFound);

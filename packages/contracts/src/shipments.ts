@@ -263,3 +263,27 @@ export const settlementResponse = z
     loanState: z.string(),
   })
   .meta({ id: 'SettlementResponse' });
+
+export const shipmentSettingsRequest = z
+  .object({
+    /** The lender's GS1 Company Prefix (4–12 digits, leading zeros kept). */
+    gs1CompanyPrefix: z.string().regex(/^\d{4,12}$/, 'A GS1 company prefix is 4 to 12 digits.'),
+    /** SSCC extension digit 0–9. */
+    extensionDigit: z.number().int().min(0).max(9).default(0),
+  })
+  .meta({ id: 'ShipmentSettingsRequest' });
+export const shipmentSettingsResponse = z
+  .object({
+    settings: z
+      .object({ gs1CompanyPrefix: z.string(), extensionDigit: z.number(), nextSerial: z.number() })
+      .nullable(),
+  })
+  .meta({ id: 'ShipmentSettingsResponse' });
+
+export const scanResponse = z
+  .object({
+    scanId: z.number(),
+    item: z.object({ id: z.number(), name: z.string(), scanned: z.number(), quantity: z.number() }),
+    parsed: gs1ParseResponse,
+  })
+  .meta({ id: 'ScanResponse' });

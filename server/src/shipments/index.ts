@@ -13,7 +13,13 @@ import { carrierOptionsFromEnv, createStandInCarrier, type CarrierClient } from 
 import { ensureOutboundShipments } from './domain/creation';
 import type { ShipmentsDeps } from './domain/deps';
 
-export { carrierWebhookRoutes, loanInspectionRoutes, shipmentRoutes } from './api/routes';
+export {
+  carrierWebhookRoutes,
+  gs1Routes,
+  loanInspectionRoutes,
+  shipmentRoutes,
+  shipmentSettingsRoutes,
+} from './api/routes';
 export { shipmentEntities, shipmentTables } from './data-access/entities';
 export { Shipments1765152000000 } from './data-access/migrations/1765152000000-shipments';
 export { runShipmentAlerts, startShipmentAlertsJob, type ShipmentAlertsJob } from './domain/alerts';

@@ -112,5 +112,17 @@ export function shipmentKit(t: () => TestApp, fake: () => RunningFake) {
     await t().dataSource.query("UPDATE shipments SET state = 'packed' WHERE id = ?", [shipmentId]);
   }
 
-  return { sign, post, world, modelWithPackingList, confirmedLoan, loanState, legsOf, packed };
+  const agentPut = async (c: Client, path: string, body: object) =>
+    c.agent.put(path).set('X-XSRF-TOKEN', c.csrf).send(body).expect(200);
+  return {
+    sign,
+    post,
+    agentPut,
+    world,
+    modelWithPackingList,
+    confirmedLoan,
+    loanState,
+    legsOf,
+    packed,
+  };
 }

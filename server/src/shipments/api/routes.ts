@@ -5,8 +5,15 @@ import {
   errorBody,
   handOverRequest,
   id,
+  gs1ParseRequest,
+  gs1ParseResponse,
   inspectionRequest,
+  manualTickRequest,
   receiptRequest,
+  scanRequest,
+  scanResponse,
+  shipmentSettingsRequest,
+  shipmentSettingsResponse,
   settlementResponse,
   shipmentList,
   shipmentParams,
@@ -21,6 +28,16 @@ import { attestDecontamination, confirmReceipt, handOver, receiveReturn } from '
 import { recordInspection, settleLoan } from '../domain/inspection';
 import { getShipment, listShipments } from '../domain/queries';
 import { handleTrackingEvent } from '../domain/tracking';
+import { packingSlip } from '../domain/packing-slip';
+import {
+  getShipmentSettings,
+  pack,
+  parseScan,
+  parsedView,
+  recordScan,
+  saveShipmentSettings,
+  tickByHand,
+} from '../domain/scanning';
 
 const error = (description: string) => ({ description, schema: errorBody });
 const loanParams = z.object({ id }).meta({ id: 'LoanIdParams' });
@@ -69,6 +86,100 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
     },
     async ({ req, res, params }) => {
       res.json({ shipment: await detail(req, params.id) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/:id/scans',
+      summary: 'Scan a GS1 element string against the checklist',
+      description:
+        'Any form a scanner sends: raw with FNC1 as GS (0x1D), behind a symbology identifier ' +
+        '(`]d2`, `]C1`), or the bracketed human-readable form. Ticks the matching line (packing ' +
+        'outbound, or receiving a return) or refuses with nothing ticked: `unreadable`, ' +
+        '`check_digit`, `no_gtin`, `not_on_list`, `expires_before_use` (AI 17 before the ' +
+        'loan’s last case day), `lot_missing`, `serial_missing`, `expiry_missing`, ' +
+        '`serial_already_scanned`, `quantity_complete`. Refusals are kept in the shipment’s scans.',
+      access: { authenticated: true },
+      params: shipmentParams,
+      body: scanRequest,
+      responses: {
+        201: { description: 'Ticked.', schema: scanResponse },
+        409: error('Not in a state that takes scans.'),
+        422: error('Refused, with `code`, `message` and `details`.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      const r = await recordScan(deps, currentAuth(req), params.id, body.raw);
+      res.status(201).json({
+        scanId: r.scanId,
+        item: {
+          id: r.item.id,
+          name: r.item.name,
+          scanned: r.item.scanned,
+          quantity: r.item.quantity,
+        },
+        parsed: r.parsed,
+      });
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/:id/manual-ticks',
+      summary: 'Tick a checklist line by hand (a reason is required)',
+      access: { authenticated: true },
+      params: shipmentParams,
+      body: manualTickRequest,
+      responses: {
+        200: { description: 'Ticked.', schema: shipmentResponse },
+        422: error('No reason, unknown line, or the line is complete.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      await tickByHand(deps, currentAuth(req), params.id, body.itemId, body.reason);
+      res.json({ shipment: await detail(req, params.id) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/:id/pack',
+      summary: 'Close the checklist: SSCC from the lender’s GS1 company prefix, state packed',
+      access: { authenticated: true },
+      params: shipmentParams,
+      responses: {
+        200: { description: 'Packed.', schema: shipmentResponse },
+        409: error('`checklist_incomplete` (details list what is left) or `gs1_prefix_missing`.'),
+      },
+    },
+    async ({ req, res, params }) => {
+      await pack(deps, currentAuth(req), params.id);
+      res.json({ shipment: await detail(req, params.id) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/:id/packing-slip.pdf',
+      summary: 'The packing slip (PDF) with the SSCC as GS1-128 and GS1 DataMatrix',
+      access: { authenticated: true },
+      params: shipmentParams,
+      responses: {
+        200: { description: 'application/pdf' },
+        409: error('Not packed yet.'),
+      },
+    },
+    async ({ req, res, params }) => {
+      const slip = await packingSlip(deps, currentAuth(req), params.id);
+      res
+        .type('application/pdf')
+        .set('Content-Disposition', `inline; filename="${slip.filename}"`)
+        .send(slip.pdf);
     },
   );
 
@@ -156,6 +267,66 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
     },
   );
 
+  return api;
+}
+
+/** `/api/gs1/parse`: what a scan says, for the scan field's preview. */
+export function gs1Routes(deps: ShipmentsDeps, catalogue: CatalogueEntry[]): ApiRouter {
+  const api = new ApiRouter('/api/gs1', 'Shipments', catalogue);
+  api.route(
+    {
+      method: 'post',
+      path: '/parse',
+      summary: 'Parse a GS1 element string (any scanner form)',
+      access: { authenticated: true },
+      body: gs1ParseRequest,
+      responses: {
+        200: { description: 'Parsed.', schema: gs1ParseResponse },
+        422: error('`check_digit` or `unreadable`, with the parser’s message.'),
+      },
+    },
+    async ({ res, body }) => {
+      res.json(parsedView(parseScan(body.raw, deps.now())));
+    },
+  );
+  return api;
+}
+
+/** `/api/lenders/:orgId/shipment-settings`: the GS1 company prefix the SSCCs are built from. */
+export function shipmentSettingsRoutes(
+  deps: ShipmentsDeps,
+  catalogue: CatalogueEntry[],
+): ApiRouter {
+  const api = new ApiRouter('/api/lenders', 'Shipments', catalogue);
+  const params = z.object({ orgId: id });
+  api.route(
+    {
+      method: 'get',
+      path: '/:orgId/shipment-settings',
+      summary: 'The lender’s SSCC settings',
+      access: { roles: ['fleet_manager', 'coordinator', 'admin'], org: 'param:orgId' },
+      params,
+      responses: { 200: { description: 'Settings.', schema: shipmentSettingsResponse } },
+    },
+    async ({ res, params: p }) => {
+      res.json({ settings: await getShipmentSettings(deps.dataSource.manager, p.orgId) });
+    },
+  );
+  api.route(
+    {
+      method: 'put',
+      path: '/:orgId/shipment-settings',
+      summary: 'Set the lender’s GS1 company prefix and SSCC extension digit',
+      access: { roles: ['fleet_manager', 'admin'], org: 'param:orgId' },
+      params,
+      body: shipmentSettingsRequest,
+      responses: { 200: { description: 'Saved.', schema: shipmentSettingsResponse } },
+    },
+    async ({ res, params: p, body }) => {
+      await saveShipmentSettings(deps.dataSource.manager, p.orgId, body, deps.now());
+      res.json({ settings: await getShipmentSettings(deps.dataSource.manager, p.orgId) });
+    },
+  );
   return api;
 }
 
