@@ -24,6 +24,8 @@ export { shipmentEntities, shipmentTables } from './data-access/entities';
 export { Shipments1765152000000 } from './data-access/migrations/1765152000000-shipments';
 export { runShipmentAlerts, startShipmentAlertsJob, type ShipmentAlertsJob } from './domain/alerts';
 export { ensureOutboundShipments } from './domain/creation';
+export { stageDemoShipments, type DemoShipmentStage } from './domain/demo';
+export { saveShipmentSettings } from './domain/scanning';
 export { handleTrackingEvent } from './domain/tracking';
 export type { CarrierClient, TrackingEvent } from './domain/carrier';
 export type { ShipmentsDeps } from './domain/deps';
