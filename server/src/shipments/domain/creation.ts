@@ -23,7 +23,8 @@ const gtin14 = (value: unknown): string | null =>
 
 /**
  * The checklist of the units leaving one depot: per unit (by id), a line for the unit itself
- * (its UDI device identifier and its serial number), then its model's packing list. Lines with
+ * (its UDI device identifier and its serial number) unless the packing list names the device,
+ * then its model's packing list. Lines with
  * a GTIN that are not serialised record lot and expiry (single-use and sterile-packed items
  * carry both; common practice for loaner kits); serialised lines record the serial.
  */
@@ -36,18 +37,23 @@ export function checklistFor(
 ): NewItem[] {
   const items: NewItem[] = [];
   for (const u of [...units].sort((a, b) => a.unitId - b.unitId)) {
-    items.push({
-      position: items.length + 1,
-      unitId: u.unitId,
-      name: `${u.modelName} (unit)`,
-      gtin: gtin14(u.udiDi),
-      quantity: 1,
-      needsLot: false,
-      needsSerial: true,
-      needsExpiry: false,
-      required: true,
-    });
-    for (const p of packing.get(u.modelId) ?? []) {
+    const list = packing.get(u.modelId) ?? [];
+    // When the packing list names the device itself (its GTIN is the unit's UDI device
+    // identifier), that line stands for the unit; otherwise the unit gets a line of its own.
+    const listed = u.udiDi !== null && list.some((p) => gtin14(p.gtin) === gtin14(u.udiDi));
+    if (!listed)
+      items.push({
+        position: items.length + 1,
+        unitId: u.unitId,
+        name: `${u.modelName} (unit)`,
+        gtin: gtin14(u.udiDi),
+        quantity: 1,
+        needsLot: false,
+        needsSerial: true,
+        needsExpiry: false,
+        required: true,
+      });
+    for (const p of list) {
       const gtin = gtin14(p.gtin);
       items.push({
         position: items.length + 1,

@@ -71,14 +71,6 @@ export const plannedDestinations: readonly Destination[] = [
       'Keep your licences, credentials and availability current so hospitals can ask you for the right visits.',
   },
   {
-    path: 'shipments',
-    label: 'Shipments',
-    icon: 'local_shipping',
-    roles: ['coordinator'],
-    summary:
-      'Pack, ship, track and receive back every unit, with packing checklists, barcode scans and return inspections.',
-  },
-  {
     path: 'organisations',
     label: 'Organisations',
     icon: 'apartment',
@@ -99,6 +91,15 @@ export const plannedDestinations: readonly Destination[] = [
  * roles as its navigation entry.
  */
 export const builtDestinations: readonly Destination[] = [
+  {
+    path: 'shipments',
+    label: 'Shipments',
+    icon: 'local_shipping',
+    // Coordinators run the board; fleet managers open it too.
+    roles: ['coordinator'],
+    summary:
+      'Pack, ship, track and receive back every unit, with packing checklists, barcode scans and return inspections.',
+  },
   {
     path: 'equipment',
     label: 'Find equipment',
