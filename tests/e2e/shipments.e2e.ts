@@ -32,7 +32,7 @@ async function shoot(page: Page, name: string): Promise<void> {
     path: path.join(screenshots, name),
     animations: 'disabled',
     caret: 'hide',
-    fullPage: true,
+    fullPage: false,
   });
 }
 
@@ -87,6 +87,7 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   browser,
 }) => {
   test.setTimeout(300_000);
+  const startedAt = Date.now();
   const hospital = await signedIn(browser, buyer);
   const b = hospital.page;
 
@@ -129,8 +130,9 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
     .getByRole('link', { name: 'Shipments' })
     .click();
   await expect(c.getByRole('heading', { level: 1, name: 'Shipments' })).toBeVisible();
-  await c.getByRole('button', { name: /To pack/ }).click();
+  await expect(c.getByText('Overdue').first()).toBeVisible();
   await shoot(c, 'shipments-board.png');
+  await c.getByRole('button', { name: /To pack/ }).click();
   await c.getByRole('link', { name: `${loan.reference}-O1` }).click();
   await expect(c.getByRole('heading', { level: 1, name: `${loan.reference}-O1` })).toBeVisible();
 
@@ -184,6 +186,7 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   // The buyer sees it on the loan page and confirms receipt, decontamination and the return.
   await b.goto(`/loans/${loan.id}`);
   await expect(b.locator('ev-loan-shipments')).toContainText('Delivered');
+  await b.locator('ev-loan-shipments').scrollIntoViewIfNeeded();
   await shoot(b, 'loan-shipments.png');
   await b.locator('ev-loan-shipments').getByRole('link', { name: 'Open' }).first().click();
   await b.getByRole('button', { name: 'Confirm receipt' }).click();
@@ -218,6 +221,7 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   await c.getByRole('button', { name: 'Add finding' }).click();
   await c.getByLabel('Finding').fill('Bent deflection lever');
   await c.getByLabel('Charge').fill('120');
+  await c.getByRole('button', { name: 'Record inspection' }).scrollIntoViewIfNeeded();
   await shoot(c, 'shipment-inspection.png');
   await c.getByRole('button', { name: 'Record inspection' }).click();
   await expect(c.getByText('Inspection recorded.')).toBeVisible();
@@ -238,9 +242,12 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   await b.goto(`/loans/${loan.id}`);
   await expect(b.getByText('Closed', { exact: true }).first()).toBeVisible();
   const state = (await (await fetch(`${paymentsFakeUrl}/__fake/state`)).json()) as {
-    refunds: { amount: number; metadata?: Record<string, string> }[];
+    refunds: { amount: number; created: number; metadata?: Record<string, string> }[];
   };
-  const ours = state.refunds.filter((r) => r.metadata?.loanId === String(loan.id));
+  // The stand-in outlives test databases, whose loan ids repeat: only this run's refunds.
+  const ours = state.refunds.filter(
+    (r) => r.metadata?.loanId === String(loan.id) && r.created * 1000 >= startedAt - 1_000,
+  );
   expect(ours.map((r) => r.amount)).toEqual([refund]);
   await coord.context.close();
   await hospital.context.close();

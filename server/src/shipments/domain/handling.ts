@@ -102,7 +102,9 @@ export async function handOver(
           shipFrom: from,
           shipTo: to,
           parcels: [{ reference: s.sscc ?? s.reference, weightGrams: 15_000 }],
-          idempotencyKey: `evalon-shipment-${s.id}-booking`,
+          // The creation instant keeps keys apart when a rebuilt database hands out the same id
+          // again (the carrier remembers keys longer than a test database lives).
+          idempotencyKey: `evalon-shipment-${s.id}-${s.createdAt.getTime()}-booking`,
         });
   await deps.dataSource.transaction('READ COMMITTED', async (m) => {
     const now = deps.now();
