@@ -148,7 +148,7 @@ export async function listShipments(
     args,
   );
   const rows: Sql[] = await m.query(
-    `SELECT ${summaryColumns} ${fromClause} ${whereSql} ORDER BY ${sorts[q.sort]} LIMIT ? OFFSET ?`,
+    `SELECT STRAIGHT_JOIN ${summaryColumns} ${fromClause} ${whereSql} ORDER BY ${sorts[q.sort]} LIMIT ? OFFSET ?`,
     [...args, q.pageSize, (q.page - 1) * q.pageSize],
   );
   return {
