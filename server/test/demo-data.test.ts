@@ -45,6 +45,9 @@ afterAll(async () => {
   await adminQuery(`DROP DATABASE IF EXISTS \`${database}\``);
 });
 
+// Loading the demo data (17 loans, ten of them with shipments) takes seconds on a busy machine.
+jest.setTimeout(60_000);
+
 describe('demo data', () => {
   it('loads into an empty database only', async () => {
     expect(await isDatabaseEmpty(dataSource)).toBe(true);

@@ -168,6 +168,8 @@ describe('packing by scans', () => {
       'UPDATE shipment_settings SET next_serial = 123456789 WHERE lender_id = ?',
       [w.lender.id],
     );
+    // This worker's database keeps earlier runs' rows: free the example SSCC for this run.
+    await t.dataSource.query("UPDATE shipments SET sscc = NULL WHERE sscc = '106141411234567897'");
     const packed = await kit.post(w.coordinator, `/api/shipments/${leg.id}/pack`).expect(200);
     expect(packed.body.shipment).toMatchObject({ state: 'packed', sscc: '106141411234567897' });
 

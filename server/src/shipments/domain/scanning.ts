@@ -345,15 +345,24 @@ export async function pack(
       );
     }
     const prefix = settings.gs1_company_prefix;
-    const serialReference = String(settings.next_serial).padStart(16 - prefix.length, '0');
-    const sscc = buildSscc({
-      extensionDigit: Number(settings.sscc_extension_digit),
-      companyPrefix: prefix,
-      serialReference,
-    });
+    // The next serial reference whose SSCC is not taken yet (a prefix entered twice, or a
+    // counter reset, must not stop packing; the unique key on `sscc` stays the last guard).
+    let serial = Number(settings.next_serial);
+    let sscc = '';
+    for (let tries = 0; tries < 1_000; tries += 1, serial += 1) {
+      sscc = buildSscc({
+        extensionDigit: Number(settings.sscc_extension_digit),
+        companyPrefix: prefix,
+        serialReference: String(serial).padStart(16 - prefix.length, '0'),
+      });
+      const taken: unknown[] = await m.query('SELECT id FROM shipments WHERE sscc = ? LIMIT 1', [
+        sscc,
+      ]);
+      if (taken.length === 0) break;
+    }
     await m.query(
-      'UPDATE shipment_settings SET next_serial = next_serial + 1, updated_at = ? WHERE lender_id = ?',
-      [now, shipment.lenderId],
+      'UPDATE shipment_settings SET next_serial = ?, updated_at = ? WHERE lender_id = ?',
+      [serial + 1, now, shipment.lenderId],
     );
     await updateShipment(m, shipmentId, { state: 'packed', sscc }, now);
     await recordState(
