@@ -26,6 +26,14 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
 
 /** Tables the application owns (everything but TypeORM's `migrations`), children first. */
 export const appTables = [
+  'loan_settlements',
+  'inspection_findings',
+  'shipment_alerts',
+  'shipment_events',
+  'shipment_scans',
+  'shipment_items',
+  'shipments',
+  'shipment_settings',
   'visit_sign_offs',
   'visit_cases',
   'visit_events',
