@@ -1,5 +1,5 @@
 // The local stand-ins for hosted services: an SMTP catcher with a web inbox, the Google
-// sign-in fake and the payments fake. Each is reused when an earlier run left it running.
+// sign-in fake, the payments fake and the carrier stand-in. Each is reused when an earlier run left it running.
 import fs from 'node:fs';
 import path from 'node:path';
 import { ensureService, log, root, stopService } from './proc.mjs';
@@ -9,6 +9,7 @@ export const ports = {
   inbox: Number(process.env.EVALON_INBOX_PORT ?? 1080),
   oauth: Number(process.env.EVALON_OAUTH_PORT ?? 8089),
   payments: Number(process.env.EVALON_PAYMENTS_PORT ?? 12111),
+  carrier: Number(process.env.EVALON_CARRIER_PORT ?? 12211),
 };
 
 const node = process.execPath;
@@ -42,6 +43,13 @@ const services = [
     port: () => ports.payments,
     script: 'infra/fakes/payments/server.mjs',
     url: () => `http://127.0.0.1:${ports.payments}`,
+  },
+  {
+    name: 'carrier-fake',
+    label: 'carrier stand-in',
+    port: () => ports.carrier,
+    script: 'infra/fakes/carrier/server.mjs',
+    url: () => `http://127.0.0.1:${ports.carrier}`,
   },
 ];
 

@@ -8,6 +8,7 @@ import type { MapsOptions } from './maps';
 import type { Mailer } from './notifications';
 import type { PaymentsClient } from './payments';
 import type { NotifyVisitEvent } from './visits';
+import type { CarrierClient } from './shipments';
 import type { ComponentContext, ServerComponent } from './component';
 import type { FileStore } from './storage/file-store';
 
@@ -33,6 +34,8 @@ export interface AppServices {
   maps: MapsOptions;
   /** The payment provider's SDK client, one per process. */
   paymentsClient: PaymentsClient;
+  /** The carrier adapter (the local stand-in unless a real carrier is configured). */
+  carrier: CarrierClient;
 }
 
 /** What `main.ts` gives every component to make its background jobs. */

@@ -22,6 +22,7 @@ import { loanNotifierFromConfig, visitNotifierFromConfig, type Mailer } from './
 import { createPaymentsClient, LocalDocumentStore, type PaymentsClient } from './payments';
 import type { FileStore } from './storage/file-store';
 import type { NotifyVisitEvent } from './visits';
+import { defaultCarrier, withShipmentCreation, type CarrierClient } from './shipments';
 
 /** What the app is built from; `main.ts` makes the real ones, tests their own. */
 export interface AppDeps {
@@ -51,6 +52,8 @@ export interface AppDeps {
   notifyVisitEvent?: NotifyVisitEvent;
   /** Where credential PDFs live (default: `config.storage.credentialDir`, a local folder). */
   credentialStore?: FileStore;
+  /** The carrier adapter (default: the local carrier stand-in from `EVALON_CARRIER_*`). */
+  carrier?: CarrierClient;
 }
 
 const requestIdPattern = /^[A-Za-z0-9._-]{1,64}$/;
@@ -103,12 +106,16 @@ export function createApp(deps: AppDeps): Express {
     sites: new SiteCache(),
     photoStore: deps.photoStore ?? new LocalPhotoStore(config.storage.photoDir),
     documentStore: deps.documentStore ?? new LocalDocumentStore(config.storage.documentDir),
-    notifyLoanEvent: deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now }),
+    // A confirmation also creates the loan's outbound shipments, in the same transaction.
+    notifyLoanEvent: withShipmentCreation(
+      deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now }),
+      now,
+    ),
     notifyVisitEvent: deps.notifyVisitEvent ?? visitNotifierFromConfig(config, { now }),
-    credentialStore:
-      deps.credentialStore ?? new LocalDocumentStore(config.storage.credentialDir),
+    credentialStore: deps.credentialStore ?? new LocalDocumentStore(config.storage.credentialDir),
     maps: deps.maps ?? mapsOptionsFromConfig(config),
     paymentsClient: deps.paymentsClient ?? createPaymentsClient(config.payments),
+    carrier: deps.carrier ?? defaultCarrier(),
   };
   const catalogue: CatalogueEntry[] = [];
   const ctx: AppContext = { config, dataSource, logger, now, catalogue, services };

@@ -9,6 +9,7 @@ import { notificationsComponent } from './notifications';
 import { organisationsComponent } from './organisations';
 import { paymentsComponent } from './payments';
 import { proctorsComponent } from './proctors';
+import { shipmentsComponent } from './shipments';
 import { systemComponent } from './system';
 import { visitsComponent } from './visits';
 
@@ -31,4 +32,5 @@ export const serverComponents: readonly AppComponent[] = [
   paymentsComponent,
   proctorsComponent,
   visitsComponent,
+  shipmentsComponent,
 ];

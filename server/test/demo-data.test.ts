@@ -45,9 +45,11 @@ afterAll(async () => {
   await adminQuery(`DROP DATABASE IF EXISTS \`${database}\``);
 });
 
+// Loading the demo data (17 loans, ten of them with shipments; the visits played through the
+// visit use cases) takes seconds on a busy machine.
+jest.setTimeout(60_000);
+
 describe('demo data', () => {
-  // Loading plays the demo visits through the visit use cases (matching every proctor): on a
-  // busy 2-core machine that takes several seconds.
   it('loads into an empty database only', async () => {
     expect(await isDatabaseEmpty(dataSource)).toBe(true);
     const summary = await loadDemoData(dataSource);
@@ -58,7 +60,7 @@ describe('demo data', () => {
       models: 7,
       units: 37,
       maintenanceHolds: 4,
-      loans: 7,
+      loans: 17,
       proctors: 8,
       visits: 7,
     });
@@ -221,12 +223,42 @@ describe('demo data', () => {
     expect(Number(back[0]!.n)).toBe(partners.length);
   });
 
+  it('has shipments in every state, one at risk, one overdue, one return awaiting inspection', async () => {
+    const legs: { direction: string; state: string; at_risk: number; overdue: number }[] =
+      await dataSource.query(
+        'SELECT direction, state, at_risk, overdue_at <= NOW(3) AS overdue FROM shipments',
+      );
+    const outbound = new Set(legs.filter((l) => l.direction === 'outbound').map((l) => l.state));
+    const returns = new Set(legs.filter((l) => l.direction === 'return').map((l) => l.state));
+    for (const s of ['to_pack', 'packed', 'handed_over', 'in_transit', 'delivered', 'exception']) {
+      expect(outbound).toContain(s);
+    }
+    for (const s of ['awaiting_return', 'in_transit', 'received', 'inspected']) {
+      expect(returns).toContain(s);
+    }
+    const open = legs.filter((l) => l.direction === 'outbound' && l.state === 'in_transit');
+    expect(open.filter((l) => Number(l.at_risk) === 1 && Number(l.overdue) === 0)).toHaveLength(1);
+    expect(open.filter((l) => Number(l.overdue) === 1)).toHaveLength(1);
+    expect(legs.filter((l) => l.direction === 'return' && l.state === 'received')).toHaveLength(1);
+  });
+
   it('has loans of both hospitals in each early state, and holds in the coming months', async () => {
     const loans: { hospital: string; state: string }[] = await dataSource.query(
       'SELECT o.name AS hospital, l.state FROM loans l JOIN organisations o ON o.id = l.hospital_id',
     );
     expect(new Set(loans.map((l) => l.state))).toEqual(
-      new Set(['requested', 'approved', 'declined', 'cancelled']),
+      new Set([
+        'requested',
+        'approved',
+        'declined',
+        'cancelled',
+        // The journey after confirmation, carried by the demo shipments.
+        'confirmed',
+        'shipped',
+        'delivered',
+        'returning',
+        'returned',
+      ]),
     );
     expect(loans.filter((l) => l.hospital === 'Velmora Health').length).toBeGreaterThanOrEqual(3);
     expect(loans.filter((l) => l.hospital === 'Klinikum Orlenbach').length).toBeGreaterThanOrEqual(
@@ -245,7 +277,11 @@ describe('demo data', () => {
       holds.filter((h) => h.loan_state === 'declined' || h.loan_state === 'cancelled'),
     ).toEqual([]);
     const events: { n: string }[] = await dataSource.query('SELECT COUNT(*) AS n FROM loan_events');
-    expect(Number(events[0]!.n)).toBe(7 + 4); // one request each, plus 2 approvals, 1 decline, 1 cancel
+    // The first seven: one request each, plus 2 approvals, 1 decline, 1 cancel. The ten staged
+    // for shipments: request, approval and confirmation each, plus their journey steps
+    // (shipped ×4 for handed over, at risk, overdue, lost; delivered: 2; returning: 3;
+    // awaiting inspection and inspected: 4 each).
+    expect(Number(events[0]!.n)).toBe(7 + 4 + 10 * 3 + (4 + 2 + 3 + 4 + 4));
   });
 
   it('has eight proctors in the US and Germany, one licence ending mid next month, visits in several states', async () => {

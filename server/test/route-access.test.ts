@@ -48,6 +48,7 @@ describe('every route declares who may call it', () => {
         'GET /api/auth/google',
         'GET /api/auth/google/callback',
         // Signed by the payment provider instead (verified before anything is read).
+        'POST /api/webhooks/carrier',
         'POST /api/webhooks/payments',
       ].sort(),
     );

@@ -80,6 +80,8 @@ function startServer(): Promise<Started> {
       EVALON_PAYMENTS_PORT: String(fake.port),
       EVALON_DEPOSIT_EXPIRY_JOB: 'on',
       EVALON_DEPOSIT_EXPIRY_INTERVAL_MS: '2000',
+      // Only confirmation e-mails are counted here: no shipment alerts for the short loans.
+      EVALON_SHIPMENT_ALERTS_INTERVAL_MS: '0',
     },
     /Evalon server listening/,
     120_000,

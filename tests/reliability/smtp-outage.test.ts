@@ -85,6 +85,8 @@ async function startServer(): Promise<Started> {
       EVALON_OUTBOX_MAX_ATTEMPTS: '1000',
       EVALON_SMTP_TIMEOUT_MS: '3000',
       EVALON_OUTBOX_LEASE_MS: '60000',
+      // Only the enqueued messages are counted here: no shipment alerts.
+      EVALON_SHIPMENT_ALERTS_INTERVAL_MS: '0',
     },
     /outbox worker started/,
     120_000,

@@ -8,3 +8,4 @@ export * from './payments';
 export * from './paging';
 export * from './values/paging';
 export * from './visits';
+export * from './shipments';

@@ -115,3 +115,11 @@ export {
   visitUnfilled,
   visitUrl,
 } from './visits';
+/** Shipment alerts and the deposit statement. */
+export {
+  type DepositStatementData,
+  type ShipmentAlertData,
+  type ShipmentAlertKind,
+  depositStatement,
+  shipmentAlert,
+} from './shipments';

@@ -26,13 +26,17 @@ export {
   findHoldsForUnits,
   insertHolds,
   type HoldInterval,
+  type NewHold,
 } from './data-access/hold-repository';
+export { bumpBookingVersion } from './data-access/catalog-repository';
 export type { CatalogDeps } from './domain/deps';
 export { unitDeposit } from './domain/models';
 export { LocalPhotoStore, type PhotoStore } from './domain/photo-store';
 export {
+  hospitalsOf,
   isBuyerOf,
   isFleetManagerOf,
+  lendersOf,
   organisationsWithRole,
   worksForHospital,
   worksForLender,

@@ -29,6 +29,14 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
  * `typeorm_metadata` (which the demo data loader must not empty).
  */
 export const appTables = [
+  'loan_settlements',
+  'inspection_findings',
+  'shipment_alerts',
+  'shipment_events',
+  'shipment_scans',
+  'shipment_items',
+  'shipments',
+  'shipment_settings',
   'visit_sign_offs',
   'visit_cases',
   'visit_events',

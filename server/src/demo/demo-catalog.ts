@@ -1,3 +1,4 @@
+import type { DemoShipmentStage } from '../shipments';
 import { toGtin14, type ModelCategory, type UnitStatus } from '@evalon/contracts';
 
 /**
@@ -257,6 +258,8 @@ export interface DemoLoan {
   outcome: DemoLoanOutcome;
   /** Why it was declined or cancelled. */
   reason?: string;
+  /** For approved loans: confirm them and take their shipments this far. */
+  shipments?: DemoShipmentStage;
 }
 
 export const demoLoans: DemoLoan[] = [
@@ -326,6 +329,38 @@ export const demoLoans: DemoLoan[] = [
     outcome: 'requested',
   },
 ];
+
+/** Loans on their way, one per shipment stage the coordinator's board shows. */
+const staged = (
+  serial: string,
+  campus: string,
+  buyer: string,
+  startInDays: number,
+  shipments: DemoShipmentStage,
+): DemoLoan => ({
+  buyer,
+  campus,
+  serialNumbers: [serial],
+  startInDays,
+  days: 2,
+  note: null,
+  outcome: 'approved',
+  shipments,
+});
+const velmora = 'buyer@velmora.example';
+const orlenbach = 'buyer@orlenbach.example';
+demoLoans.push(
+  staged('QC11-0002', 'Velmora East Campus', velmora, 14, 'to_pack'),
+  staged('QU75-0003', 'Velmora East Campus', velmora, 14, 'packed'),
+  staged('QP1-0002', 'Velmora Lakefront Campus', velmora, 16, 'handed_over'),
+  staged('QU75-0005', 'Velmora Lakefront Campus', velmora, 18, 'at_risk'),
+  staged('QC11-0003', 'Velmora East Campus', velmora, 20, 'overdue'),
+  staged('QU75-0006', 'Velmora East Campus', velmora, 22, 'lost'),
+  staged('QR2S-0004', 'Velmora East Campus', velmora, 24, 'delivered'),
+  staged('QV4-0003', 'Orlenbach Hauptstandort', orlenbach, 14, 'returning'),
+  staged('QC11-0004', 'Orlenbach Hauptstandort', orlenbach, 18, 'awaiting_inspection'),
+  staged('QU75-0008', 'Orlenbach Hauptstandort', orlenbach, 22, 'inspected'),
+);
 
 /** The demo lender and the person who approves or declines its loans. */
 export const demoLender = { name: 'Quorvel Surgical', fleetManager: 'fleet@quorvel.example' };

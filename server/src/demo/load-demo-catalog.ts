@@ -1,3 +1,4 @@
+import { saveShipmentSettings, stageDemoShipments } from '../shipments';
 import type { DataSource } from 'typeorm';
 import { addCalendarDays, isoWeekday } from '@evalon/scheduling';
 import { PlannerCache } from '../availability';
@@ -156,6 +157,14 @@ export async function loadDemoCatalog(
     summary.maintenanceHolds++;
   }
 
+  // SSCCs of the demo lender: GS1's documentation example company prefix.
+  await saveShipmentSettings(
+    dataSource.manager,
+    lenderId,
+    { gs1CompanyPrefix: '0614141', extensionDigit: 0 },
+    now,
+  );
+  const ssccSerial = { next: 1 };
   for (const loan of demoLoans) {
     const buyer = await authOf(dataSource, loan.buyer);
     const useFrom = mondayOnOrAfter(addCalendarDays(today, loan.startInDays));
@@ -168,6 +177,12 @@ export async function loadDemoCatalog(
     });
     if (loan.outcome === 'approved') {
       await transitionLoan(loanDeps, fleet, created.id, 'approve', null);
+      if (loan.shipments) {
+        const stage = loan.shipments;
+        await dataSource.transaction((m) =>
+          stageDemoShipments(m, created.id, stage, fleet.user.id, now, ssccSerial),
+        );
+      }
     } else if (loan.outcome === 'declined') {
       await transitionLoan(loanDeps, fleet, created.id, 'decline', loan.reason ?? 'Not available');
     } else if (loan.outcome === 'cancelled') {
@@ -175,5 +190,9 @@ export async function loadDemoCatalog(
     }
     summary.loans++;
   }
+  await dataSource.query('UPDATE shipment_settings SET next_serial = ? WHERE lender_id = ?', [
+    ssccSerial.next,
+    lenderId,
+  ]);
   return summary;
 }

@@ -35,6 +35,9 @@ export {
 export { requestLoan } from './domain/booking';
 // The deposit columns belong to the loans table; payments writes them through these.
 export { setLoanDepositDueAt, setLoanDepositOutcome } from './data-access/loan-repository';
+// Shipments lock a loan (before its legs) to move it along the journey.
+export { lockLoan } from './data-access/loan-repository';
+export type { HoldRow, LoanRow, LoanUnitRow } from './data-access/entities';
 export { canSeeLoan, getLoan, listLoans } from './domain/queries';
 
 /** Loans, their units, holds and events: tables, the state machine and `/api/loans`. */

@@ -9,6 +9,12 @@ import { createOutboxWorker } from './domain/outbox-worker';
 
 export { loanNotifierFromConfig } from './domain/loan-notifications';
 export {
+  createShipmentNotifier,
+  shipmentNotifierFromConfig,
+  type NotifyShipmentEvent,
+  type ShipmentNotice,
+} from './domain/shipment-notifications';
+export {
   createVisitNotifier,
   credentialNotifierFromConfig,
   visitNotifierFromConfig,

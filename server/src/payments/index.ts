@@ -48,7 +48,10 @@ export function createPaymentsDeps(input: {
 
 // One deps object per app, shared by the webhook router and the others.
 const depsOfApp = new WeakMap<AppServices, PaymentsDeps>();
-function depsOf(ctx: Parameters<NonNullable<AppComponent['routers']>>[0]): PaymentsDeps {
+/** The payments deps of an app (one per app): shipments settle deposits through them. */
+export function paymentsDepsOf(
+  ctx: Parameters<NonNullable<AppComponent['routers']>>[0],
+): PaymentsDeps {
   let deps = depsOfApp.get(ctx.services);
   if (!deps) {
     deps = createPaymentsDeps({
@@ -71,10 +74,10 @@ export const paymentsComponent: AppComponent = {
   migrations: [Payments1764892800000],
   // The provider's webhook needs its raw body (the signature covers the exact bytes) and no
   // session or CSRF token.
-  rawRouters: (ctx) => [paymentWebhookRoutes(depsOf(ctx), ctx.catalogue)],
+  rawRouters: (ctx) => [paymentWebhookRoutes(paymentsDepsOf(ctx), ctx.catalogue)],
   routers: (ctx) => [
-    loanPaymentRoutes(depsOf(ctx), ctx.catalogue),
-    creditAgreementRoutes(depsOf(ctx), ctx.catalogue),
+    loanPaymentRoutes(paymentsDepsOf(ctx), ctx.catalogue),
+    creditAgreementRoutes(paymentsDepsOf(ctx), ctx.catalogue),
   ],
   jobs: (ctx) => {
     // Approved loans whose deposit deadline passed expire; any number of processes may run it.

@@ -95,6 +95,13 @@ export const routes: Routes = [
         loadChildren: () => import('./features/loans/loans.routes').then((m) => m.loansRoutes),
       },
       {
+        // Coordinators and fleet managers run the board; hospital people open their loans' legs.
+        path: 'shipments',
+        canActivate: [roleGuard('coordinator', 'fleet_manager', 'buyer', 'clinician', 'admin')],
+        loadChildren: () =>
+          import('./features/shipments/shipments.routes').then((m) => m.shipmentsRoutes),
+      },
+      {
         path: 'notifications',
         loadChildren: () =>
           import('./features/notifications/notifications.routes').then(

@@ -31,9 +31,13 @@ export interface LoanActor {
 /** What {@link applyLoanTransition} needs besides the loan. */
 export interface TransitionContext {
   now: Date;
-  notifyLoanEvent: NotifyLoanEvent;
-  /** How long a buyer has to secure the deposit after approval (`EVALON_DEPOSIT_WINDOW_HOURS`). */
-  depositWindowMs: number;
+  /** Needed by the steps whose table row names a notice (the journey steps after confirmation have none). */
+  notifyLoanEvent?: NotifyLoanEvent;
+  /**
+   * How long a buyer has to secure the deposit after approval (`EVALON_DEPOSIT_WINDOW_HOURS`);
+   * needed by `approve` only.
+   */
+  depositWindowMs?: number;
 }
 
 /**
@@ -70,6 +74,7 @@ export async function applyLoanTransition(
   if (plan.to === 'approved') {
     // The deposit deadline is fixed once, here, by the @evalon/deposits rule; the approval
     // e-mail, the deposit page and the expiry job all read the stored instant.
+    if (ctx.depositWindowMs === undefined) throw new Error('approve needs depositWindowMs');
     const due = depositDeadline(ctx.now, await loanUnitShipDays(m, loan.id), ctx.depositWindowMs);
     await setLoanDepositDueAt(m, loan.id, due);
   }
@@ -86,6 +91,8 @@ export async function applyLoanTransition(
   );
   const notice = loanTransitionTable[action].notice;
   if (notice) {
+    // A caller without the notifier for a step that has a notice is a wiring mistake.
+    if (!ctx.notifyLoanEvent) throw new Error(`${action} needs notifyLoanEvent`);
     await ctx.notifyLoanEvent(m, {
       loanId: loan.id,
       event: notice,

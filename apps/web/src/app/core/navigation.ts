@@ -47,14 +47,6 @@ export const plannedDestinations: readonly Destination[] = [
       'Record each evaluation case, de-identified, so the evaluation report builds itself as you go.',
   },
   {
-    path: 'shipments',
-    label: 'Shipments',
-    icon: 'local_shipping',
-    roles: ['coordinator'],
-    summary:
-      'Pack, ship, track and receive back every unit, with packing checklists, barcode scans and return inspections.',
-  },
-  {
     path: 'organisations',
     label: 'Organisations',
     icon: 'apartment',
@@ -99,6 +91,15 @@ export const builtDestinations: readonly Destination[] = [
     roles: ['proctor'],
     summary:
       'Keep your licences, credentials and availability current so hospitals can ask you for the right visits.',
+  },
+  {
+    path: 'shipments',
+    label: 'Shipments',
+    icon: 'local_shipping',
+    // Coordinators run the board; fleet managers open it too.
+    roles: ['coordinator'],
+    summary:
+      'Pack, ship, track and receive back every unit, with packing checklists, barcode scans and return inspections.',
   },
   {
     path: 'equipment',

@@ -33,6 +33,7 @@ import {
   loanProgress,
 } from '../../shared/milestone-timeline/milestone-timeline';
 import { PageHeader } from '../../shared/page-header/page-header';
+import { LoanShipments } from '../shipments/loan-shipments';
 import { CancelDialog, CancelDialogData } from './cancel-dialog';
 import { DepositReturn, DepositSection } from './deposit-section';
 import { LoanApi } from './loan-api';
@@ -82,6 +83,7 @@ export function nextStepText(loan: Loan): string {
     EmptyState,
     LoanDocuments,
     LoanPaymentsCard,
+    LoanShipments,
     LoanStateChip,
     MatButtonModule,
     MatCardModule,
