@@ -327,5 +327,10 @@ describe('demo data', () => {
     }
     const [migrations] = await dataSource.query('SELECT COUNT(*) AS n FROM migrations');
     expect(Number(migrations.n)).toBeGreaterThan(0);
+    // Loan references start again at 1 (the sequence is not cached, so no restart skips any).
+    const [next] = await dataSource.query('SELECT NEXTVAL(loan_reference_seq) AS n');
+    expect(Number(next.n)).toBe(1);
+    const [seq] = await dataSource.query('SELECT cache_size AS cache FROM loan_reference_seq');
+    expect(Number(seq.cache)).toBe(0);
   });
 });

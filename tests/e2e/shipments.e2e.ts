@@ -120,7 +120,11 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   await b.getByRole('button', { name: 'Test card that succeeds' }).click();
   await b.getByRole('button', { name: /^Pay/ }).click();
   await expect(b).toHaveURL(new RegExp(`/loans/${loan.id}`), { timeout: 30_000 });
-  await expect(b.getByText('Confirmed', { exact: true })).toBeVisible({ timeout: 30_000 });
+  await expect(b.locator('ev-loan-state-chip').getByText('Confirmed', { exact: true })).toBeVisible(
+    {
+      timeout: 30_000,
+    },
+  );
 
   // The coordinator's board lists the new outbound leg to pack.
   const coord = await signedIn(browser, coordinator);

@@ -24,7 +24,7 @@ export async function isDatabaseEmpty(dataSource: DataSource): Promise<boolean> 
   return Number(rows[0]?.n ?? 0) === 0;
 }
 
-/** Empties every application table (not the migrations record). */
+/** Empties every application table (not the migrations record) and restarts loan references. */
 export async function truncateAppTables(dataSource: DataSource): Promise<void> {
   const runner = dataSource.createQueryRunner();
   await runner.connect();
@@ -32,6 +32,8 @@ export async function truncateAppTables(dataSource: DataSource): Promise<void> {
     // Foreign-key checks are per connection, so everything runs on this one.
     await runner.query('SET FOREIGN_KEY_CHECKS = 0');
     for (const table of appTables) await runner.query(`TRUNCATE TABLE \`${table}\``);
+    // With no loans left, references start again at EV-<year>-000001.
+    await runner.query('ALTER SEQUENCE loan_reference_seq RESTART WITH 1');
   } finally {
     await runner.query('SET FOREIGN_KEY_CHECKS = 1').catch(() => undefined);
     await runner.release();

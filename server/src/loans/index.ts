@@ -4,6 +4,7 @@ import { availabilityDepsOf } from '../availability';
 import type { AppComponent } from '../app-services';
 import { Loans1764720060000 } from '../database/migrations/1764720060000-loans';
 import { HoldsHospital1764979200000 } from '../database/migrations/1764979200000-holds-hospital';
+import { LoanReferenceNocache1765238400000 } from '../database/migrations/1765238400000-loan-reference-nocache';
 import { loanRoutes } from './api/routes';
 import { HoldEntity, LoanEntity, LoanEventEntity, LoanUnitEntity } from './data-access/entities';
 import type { LoanDeps } from './domain/deps';
@@ -44,7 +45,7 @@ export { canSeeLoan, getLoan, listLoans } from './domain/queries';
 export const loansComponent: AppComponent = {
   name: 'loans',
   entities: [LoanEntity, LoanUnitEntity, HoldEntity, LoanEventEntity],
-  migrations: [Loans1764720060000, HoldsHospital1764979200000],
+  migrations: [Loans1764720060000, HoldsHospital1764979200000, LoanReferenceNocache1765238400000],
   routers: (ctx) => {
     const deps: LoanDeps = {
       ...availabilityDepsOf(ctx),
