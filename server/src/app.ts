@@ -115,7 +115,7 @@ export function createApp(deps: AppDeps): Express {
     credentialStore: deps.credentialStore ?? new LocalDocumentStore(config.storage.credentialDir),
     maps: deps.maps ?? mapsOptionsFromConfig(config),
     paymentsClient: deps.paymentsClient ?? createPaymentsClient(config.payments),
-    carrier: deps.carrier ?? defaultCarrier(),
+    carrier: deps.carrier ?? defaultCarrier(config),
   };
   const catalogue: CatalogueEntry[] = [];
   const ctx: AppContext = { config, dataSource, logger, now, catalogue, services };

@@ -68,6 +68,24 @@ describe('configuration', () => {
     );
   });
 
+  it('reads the visit and shipment settings, with 0 turning the alerts job off', () => {
+    const d = loadConfig({});
+    expect(d.visits).toEqual({ offerHours: 48, travelDayThresholdKm: 500 });
+    expect(d.shipments.alertsIntervalMs).toBe(60_000);
+    expect(d.shipments.carrier.baseUrl).toBe('http://127.0.0.1:12211');
+    const c = loadConfig({
+      EVALON_VISIT_OFFER_HOURS: '24',
+      EVALON_SHIPMENT_ALERTS_INTERVAL_MS: '0',
+      EVALON_CARRIER_PORT: '13000',
+    });
+    expect(c.visits.offerHours).toBe(24);
+    expect(c.shipments.alertsIntervalMs).toBe(0);
+    expect(c.shipments.carrier.baseUrl).toBe('http://127.0.0.1:13000');
+    expect(() => loadConfig({ EVALON_SHIPMENT_ALERTS_INTERVAL_MS: '-5' })).toThrow(
+      /EVALON_SHIPMENT_ALERTS_INTERVAL_MS/,
+    );
+  });
+
   it('refuses the development session secret in production', () => {
     expect(() => loadConfig({ NODE_ENV: 'production' })).toThrow(/EVALON_SESSION_SECRET/);
     expect(loadConfig({ NODE_ENV: 'production', EVALON_SESSION_SECRET: 'x'.repeat(32) }).env).toBe(

@@ -122,6 +122,22 @@ const envSchema = z.object({
     z.enum(['on', 'off'], { error: 'must be on or off' }).default('on'),
   ),
   EVALON_DEPOSIT_EXPIRY_INTERVAL_MS: positive(60_000),
+  EVALON_VISIT_OFFER_HOURS: positive(48),
+  EVALON_VISIT_TRAVEL_DAY_KM: positive(500),
+  EVALON_CARRIER_PORT: port(12211),
+  EVALON_CARRIER_URL: z.preprocess(blankAsMissing, z.string().optional()),
+  EVALON_CARRIER_API_KEY: str('carrier_key_evalon_local'),
+  EVALON_CARRIER_WEBHOOK_SECRET: str('carrier_whsec_evalon_local'),
+  EVALON_CARRIER_TIMEOUT_MS: positive(10_000),
+  // 0 turns the shipment alerts job off (test servers whose suites count e-mails).
+  EVALON_SHIPMENT_ALERTS_INTERVAL_MS: z.preprocess(
+    blankAsMissing,
+    z.coerce
+      .number({ error: 'must be a number' })
+      .int('must be a whole number')
+      .min(0, 'must be 0 (off) or more')
+      .default(60_000),
+  ),
 });
 
 /** Settings of the whole server, read once from the environment. */
@@ -212,6 +228,25 @@ export interface Config {
   };
   /** The payment provider (its official SDK) and the deposit rules around it. */
   payments: PaymentsConfig;
+  /** Proctoring visits: how long an offer waits, when a proctor needs travel days. */
+  visits: {
+    /** Hours a proctor has to answer an offer (`EVALON_VISIT_OFFER_HOURS`, default 48). */
+    offerHours: number;
+    /** Great-circle distance above which a travel day goes before and after (default 500 km). */
+    travelDayThresholdKm: number;
+  };
+  /** Shipments: the carrier adapter and the alerts job. */
+  shipments: {
+    /** Pause between alert runs; 0 turns the job off (`EVALON_SHIPMENT_ALERTS_INTERVAL_MS`). */
+    alertsIntervalMs: number;
+    carrier: {
+      /** The carrier API (`EVALON_CARRIER_URL`, default the local stand-in on `EVALON_CARRIER_PORT`). */
+      baseUrl: string;
+      apiKey: string;
+      webhookSecret: string;
+      timeoutMs: number;
+    };
+  };
 }
 
 /** Settings of the payments component (the decisions are in the JsDoc of `payments/domain`). */
@@ -386,6 +421,19 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
       depositWindowMs: e.EVALON_DEPOSIT_WINDOW_HOURS * 3_600_000,
       expiryJob: e.EVALON_DEPOSIT_EXPIRY_JOB === 'on',
       expiryIntervalMs: e.EVALON_DEPOSIT_EXPIRY_INTERVAL_MS,
+    },
+    visits: {
+      offerHours: e.EVALON_VISIT_OFFER_HOURS,
+      travelDayThresholdKm: e.EVALON_VISIT_TRAVEL_DAY_KM,
+    },
+    shipments: {
+      alertsIntervalMs: e.EVALON_SHIPMENT_ALERTS_INTERVAL_MS,
+      carrier: {
+        baseUrl: e.EVALON_CARRIER_URL ?? `http://127.0.0.1:${e.EVALON_CARRIER_PORT}`,
+        apiKey: e.EVALON_CARRIER_API_KEY,
+        webhookSecret: e.EVALON_CARRIER_WEBHOOK_SECRET,
+        timeoutMs: e.EVALON_CARRIER_TIMEOUT_MS,
+      },
     },
   };
 }

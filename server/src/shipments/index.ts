@@ -21,7 +21,11 @@ import type { Logger } from '../logger';
 import { shipmentNotifierFromConfig, type NotifyShipmentEvent } from '../notifications';
 import type { NotifyLoanEvent } from '../loans';
 import type { PaymentsDeps } from '../payments';
-import { carrierOptionsFromEnv, createStandInCarrier, type CarrierClient } from './domain/carrier';
+import {
+  carrierOptionsFromConfig,
+  createStandInCarrier,
+  type CarrierClient,
+} from './domain/carrier';
 import { ensureOutboundShipments } from './domain/creation';
 import type { ShipmentsDeps } from './domain/deps';
 
@@ -44,7 +48,7 @@ export type { ShipmentsDeps } from './domain/deps';
 
 /** The component's dependencies for a server configuration. */
 export function createShipmentsDeps(input: {
-  config: Pick<Config, 'http'>;
+  config: Pick<Config, 'http' | 'shipments'>;
   dataSource: DataSource;
   logger: Logger;
   payments: PaymentsDeps;
@@ -57,7 +61,7 @@ export function createShipmentsDeps(input: {
     dataSource: input.dataSource,
     logger: input.logger,
     now,
-    carrier: input.carrier ?? createStandInCarrier(carrierOptionsFromEnv()),
+    carrier: input.carrier ?? defaultCarrier(input.config),
     notify: input.notify ?? shipmentNotifierFromConfig(input.config, { now }),
     payments: input.payments,
   };
@@ -78,8 +82,8 @@ export function withShipmentCreation(
 }
 
 /** The carrier stand-in from `EVALON_CARRIER_*` (a real carrier plugs in behind CarrierClient). */
-export function defaultCarrier(): CarrierClient {
-  return createStandInCarrier(carrierOptionsFromEnv());
+export function defaultCarrier(config: Pick<Config, 'shipments'>): CarrierClient {
+  return createStandInCarrier(carrierOptionsFromConfig(config));
 }
 
 /** One deps object per app, shared by the carrier webhook and the other routers. */
@@ -119,9 +123,8 @@ export const shipmentsComponent: AppComponent = {
   jobs: (ctx) => {
     // At-risk, overdue and return-reminder alerts; rows are claimed FOR UPDATE SKIP LOCKED, so
     // any number of processes may run it. 0 turns it off.
-    // (Read here until config.ts gets the setting; noted in the issue.)
-    const intervalMs = Number(process.env.EVALON_SHIPMENT_ALERTS_INTERVAL_MS ?? 60_000);
-    if (!(intervalMs > 0)) return [];
+    const intervalMs = ctx.config.shipments.alertsIntervalMs;
+    if (intervalMs === 0) return [];
     let job: ShipmentAlertsJob | null = null;
     return [
       {

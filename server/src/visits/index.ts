@@ -8,6 +8,7 @@ import type { AppComponent } from '../app-services';
 import { visitNotifierFromConfig } from '../notifications';
 import { visitRoutes } from './api/routes';
 import { startOfferDeadlineJob, type OfferDeadlineJob } from './domain/offers';
+import type { Config } from '../config';
 import type { Logger } from '../logger';
 import { defaultVisitSettings, type VisitDeps, type VisitSettings } from './domain/deps';
 import { noVisitNotifications, type NotifyVisitEvent } from './domain/notifications';
@@ -40,22 +41,12 @@ export const visitEntities = [
   VisitSignOffEntity,
 ];
 
-/** Settings from the environment: `EVALON_VISIT_OFFER_HOURS`, `EVALON_VISIT_TRAVEL_DAY_KM`. */
-export function visitSettingsFromEnv(env: NodeJS.ProcessEnv = process.env): VisitSettings {
-  const number = (name: string, fallback: number) => {
-    const raw = env[name]?.trim();
-    if (!raw) return fallback;
-    const value = Number(raw);
-    if (!Number.isFinite(value) || value <= 0) throw new Error(`${name} must be a number above 0`);
-    return value;
-  };
+/** Visit settings from the server configuration (`EVALON_VISIT_OFFER_HOURS`, `EVALON_VISIT_TRAVEL_DAY_KM`). */
+export function visitSettingsFromConfig(config: Pick<Config, 'visits'>): VisitSettings {
   return {
     ...defaultVisitSettings,
-    offerHours: number('EVALON_VISIT_OFFER_HOURS', defaultVisitSettings.offerHours),
-    travelDayThresholdKm: number(
-      'EVALON_VISIT_TRAVEL_DAY_KM',
-      defaultVisitSettings.travelDayThresholdKm,
-    ),
+    offerHours: config.visits.offerHours,
+    travelDayThresholdKm: config.visits.travelDayThresholdKm,
   };
 }
 
@@ -72,7 +63,7 @@ export function createVisitDeps(input: {
     logger: input.logger,
     now: input.now ?? (() => new Date()),
     notifyVisitEvent: input.notifyVisitEvent ?? noVisitNotifications,
-    settings: { ...visitSettingsFromEnv(), ...input.settings },
+    settings: { ...defaultVisitSettings, ...input.settings },
   };
 }
 export { acceptOffer, cancelVisit, declineOffer, reopenVisit, requestVisit } from './domain/offers';
@@ -89,6 +80,7 @@ export const visitsComponent: AppComponent = {
         logger: ctx.logger,
         now: ctx.now,
         notifyVisitEvent: ctx.services.notifyVisitEvent,
+        settings: visitSettingsFromConfig(ctx.config),
       }),
       ctx.catalogue,
     ),
@@ -107,6 +99,7 @@ export const visitsComponent: AppComponent = {
               dataSource: ctx.dataSource,
               logger: ctx.logger,
               notifyVisitEvent: visitNotifierFromConfig(ctx.config),
+              settings: visitSettingsFromConfig(ctx.config),
             }),
           );
         },

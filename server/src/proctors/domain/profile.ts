@@ -11,8 +11,7 @@ import { addCalendarDays, toSiteDate } from '@evalon/scheduling';
 import { validateAvailabilityRule } from '@evalon/matching';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
-import { isPdf, LocalDocumentStore, newDocumentKey } from '../../payments';
-import type { FileStore } from '../../storage/file-store';
+import { isPdf, newDocumentKey } from '../../payments';
 import {
   findCredential,
   findCredentials,
@@ -281,14 +280,4 @@ export async function readMyCredentialFile(
   const data = row?.storageKey ? await deps.credentialStore.get(row.storageKey) : null;
   if (!row || !data) throw AppError.notFound('credential_not_found', 'There is no such file.');
   return { fileName: row.fileName ?? 'credential.pdf', data };
-}
-
-/**
- * Credential PDFs in a folder outside the web root: `EVALON_CREDENTIAL_DIR` (absolute, or
- * relative to `EVALON_ROOT`, else the working directory), default `.data/uploads/credentials`.
- */
-export function credentialStoreFromEnv(env: NodeJS.ProcessEnv = process.env): FileStore {
-  const root = env.EVALON_ROOT?.trim() || process.cwd();
-  const dir = env.EVALON_CREDENTIAL_DIR?.trim() || '.data/uploads/credentials';
-  return new LocalDocumentStore(path.resolve(root, dir));
 }

@@ -1,3 +1,4 @@
+import type { Config } from '../../config';
 import crypto from 'node:crypto';
 import { AppError } from '../../errors';
 
@@ -59,14 +60,14 @@ export interface CarrierOptions {
 }
 
 /** The carrier settings from the environment (the local stand-in by default). */
-export function carrierOptionsFromEnv(env: NodeJS.ProcessEnv = process.env): CarrierOptions {
-  const port = env.EVALON_CARRIER_PORT || '12211';
+export function carrierOptionsFromConfig(config: Pick<Config, 'shipments'>): CarrierOptions {
+  const c = config.shipments.carrier;
   return {
-    baseUrl: env.EVALON_CARRIER_URL || `http://127.0.0.1:${port}`,
-    apiKey: env.EVALON_CARRIER_API_KEY || 'carrier_key_evalon_local',
-    webhookSecret: env.EVALON_CARRIER_WEBHOOK_SECRET || 'carrier_whsec_evalon_local',
+    baseUrl: c.baseUrl,
+    apiKey: c.apiKey,
+    webhookSecret: c.webhookSecret,
     toleranceSeconds: 300,
-    timeoutMs: Number(env.EVALON_CARRIER_TIMEOUT_MS || 10_000),
+    timeoutMs: c.timeoutMs,
   };
 }
 
