@@ -1,5 +1,6 @@
 import type { DemoShipmentStage } from '../shipments';
 import { toGtin14, type ModelCategory, type UnitStatus } from '@evalon/contracts';
+import modelsFile from './demo-models.json';
 
 /**
  * The demo catalogue of the invented lender Quorvel Surgical: models, units over its three
@@ -37,137 +38,35 @@ export interface DemoModel {
   packingList: DemoPackingItem[];
 }
 
-const item = (name: string, gtin: number | null, quantity = 1, serialised = false) => ({
-  name,
-  gtin: gtin === null ? null : demoGtin(gtin),
-  quantity,
-  serialised,
-});
+/** One row of the data file: the model with item numbers where the code builds GTINs. */
+interface ModelRecord {
+  key: string;
+  name: string;
+  category: ModelCategory;
+  description: string;
+  listValueUsdCents: number;
+  deposit: { percentBps: number; min: number; max: number };
+  deviceItem: number;
+  /** [item, GTIN item number or null, quantity, serialised] */
+  packingList: [string, number | null, number, boolean][];
+}
 
-export const demoModels: DemoModel[] = [
-  {
-    key: 'robot',
-    name: 'Quorvel R2 robotic platform',
-    category: 'robotic_platform',
-    description:
-      'Four-arm robotic platform for minimally invasive urology and general surgery: ' +
-      'patient-side cart, surgeon console and vision cart. Loaned with a starter instrument ' +
-      'set; in-service training by the lender’s clinical specialist.',
-    listValue: 185_000_000,
-    depositRule: { percentBps: 200, min: 2_500_000, max: 6_000_000 },
-    deviceGtin: demoGtin(10001),
-    packingList: [
-      item('Patient-side cart', 10001, 1, true),
-      item('Surgeon console', 10002, 1, true),
-      item('Vision cart with 3D endoscope', 10003, 1, true),
-      item('Sterile drape kit (box of 10)', 10004, 2),
-      item('Power and fibre-optic cable set', 10005),
-      item('Quick reference guide', null),
-    ],
-  },
-  {
-    key: 'uretero',
-    name: 'Quorvel U75 7.5 Fr digital ureteroscope',
-    category: 'flexible_endoscope',
-    description:
-      'Reusable flexible digital ureteroscope, 7.5 Fr tip, 270° two-way deflection, ' +
-      '3.6 Fr working channel. Reprocessed per its instructions for use between loans.',
-    listValue: 2_800_000,
-    depositRule: { percentBps: 2_000, min: 200_000, max: 800_000 },
-    deviceGtin: demoGtin(20001),
-    packingList: [
-      item('Ureteroscope', 20001, 1, true),
-      item('Leak tester', 20002),
-      item('Channel cleaning brush (pack of 5)', 20003),
-      item('Protective transport case', null),
-    ],
-  },
-  {
-    key: 'cysto',
-    name: 'Quorvel C11 11 Fr flexible cystoscope',
-    category: 'flexible_endoscope',
-    description:
-      'Reusable flexible video cystoscope, 11 Fr outer diameter, for office and OR cystoscopy ' +
-      'and stent removal.',
-    listValue: 1_950_000,
-    depositRule: { percentBps: 2_000, min: 150_000, max: 500_000 },
-    deviceGtin: demoGtin(21001),
-    packingList: [
-      item('Cystoscope', 21001, 1, true),
-      item('Leak tester', 20002),
-      item('Video cable', 21002),
-    ],
-  },
-  {
-    key: 'laser',
-    name: 'Quorvel T60 60 W thulium fibre laser',
-    category: 'laser',
-    description:
-      'Thulium fibre laser console, up to 60 W, for stone dusting and soft-tissue work; ' +
-      'reusable fibres 150–550 µm. Laser safety officer sign-off required at the hospital.',
-    listValue: 14_500_000,
-    depositRule: { percentBps: 1_000, min: 500_000, max: 2_000_000 },
-    deviceGtin: demoGtin(30001),
-    packingList: [
-      item('Laser console', 30001, 1, true),
-      item('Foot switch', 30002),
-      item('Reusable fibre 200 µm', 30003, 3),
-      item('Safety eyewear (pair)', 30004, 4),
-      item('Door warning sign', null, 2),
-    ],
-  },
-  {
-    key: 'tower',
-    name: 'Quorvel V4 4K imaging tower',
-    category: 'imaging',
-    description:
-      '4K camera control unit, LED light source, 32-inch surgical monitor and recorder on one ' +
-      'cart; compatible with the U75 and C11 scopes.',
-    listValue: 9_500_000,
-    depositRule: { percentBps: 1_000, min: 500_000, max: 1_500_000 },
-    deviceGtin: demoGtin(40001),
-    packingList: [
-      item('Camera control unit', 40001, 1, true),
-      item('LED light source', 40002, 1, true),
-      item('32-inch surgical monitor', 40003, 1, true),
-      item('Cart with isolation transformer', 40004),
-    ],
-  },
-  {
-    key: 'fluid',
-    name: 'Quorvel P1 irrigation and pressure controller',
-    category: 'fluid_management',
-    description:
-      'Irrigation pump with intrarenal pressure limit and flow display for ureteroscopy and ' +
-      'laser lithotripsy.',
-    listValue: 1_850_000,
-    depositRule: { percentBps: 1_500, min: 100_000, max: 400_000 },
-    deviceGtin: demoGtin(50001),
-    packingList: [
-      item('Pump console', 50001, 1, true),
-      item('Tubing set (box of 10)', 50002),
-      item('Pole clamp', null),
-    ],
-  },
-  {
-    key: 'instruments',
-    name: 'Quorvel R2 starter instrument set',
-    category: 'accessory',
-    description:
-      'Eight reusable wristed instruments (needle drivers, graspers, scissors, bipolar) for ' +
-      'the R2 platform, each good for 10 uses, in a sterilisation tray.',
-    listValue: 1_200_000,
-    depositRule: { percentBps: 2_500, min: 100_000, max: 300_000 },
-    deviceGtin: demoGtin(60001),
-    packingList: [
-      item('Large needle driver', 60002, 2, true),
-      item('Fenestrated bipolar forceps', 60003, 1, true),
-      item('Curved scissors', 60004, 1, true),
-      item('Grasping retractor', 60005, 2, true),
-      item('Sterilisation tray', 60001),
-    ],
-  },
-];
+/** The models are data (demo-models.json, one record per model); GTINs are derived here. */
+export const demoModels: DemoModel[] = (modelsFile.models as ModelRecord[]).map((m) => ({
+  key: m.key,
+  name: m.name,
+  category: m.category,
+  description: m.description,
+  listValue: m.listValueUsdCents,
+  depositRule: m.deposit,
+  deviceGtin: demoGtin(m.deviceItem),
+  packingList: m.packingList.map(([name, gtin, quantity, serialised]) => ({
+    name,
+    gtin: gtin === null ? null : demoGtin(gtin),
+    quantity,
+    serialised,
+  })),
+}));
 
 /** Pairs of compatible models (stored both ways). */
 export const demoCompatibility: [string, string][] = [
