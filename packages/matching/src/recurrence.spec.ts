@@ -505,3 +505,29 @@ describe('agreement with ical.js (an independent RFC 5545 implementation)', () =
     );
   });
 });
+
+describe('remembered expansions', () => {
+  // Expansions are cached per rule and window (a ranking reads the same patterns many times):
+  // a caller that changes what it got must not change what the next caller gets.
+  const rule = 'DTSTART;TZID=America/Chicago:20250106T070000\nRRULE:FREQ=WEEKLY;BYDAY=MO,WE,FR';
+  const range = { from: '2027-06-07', to: '2027-06-13' };
+
+  it('hands out copies, so a changed result does not leak into the next call', () => {
+    const first = ruleOccurrences(rule, 'America/Chicago', range);
+    expect(first.map((o) => o.date)).toEqual(['2027-06-07', '2027-06-09', '2027-06-11']);
+    first[0]!.date = '1999-01-01';
+    first.pop();
+    const again = ruleOccurrences(rule, 'America/Chicago', range);
+    expect(again.map((o) => o.date)).toEqual(['2027-06-07', '2027-06-09', '2027-06-11']);
+  });
+
+  it('keeps windows and zones apart', () => {
+    const berlin = ruleOccurrences(rule, 'Europe/Berlin', range);
+    const chicago = ruleOccurrences(rule, 'America/Chicago', range);
+    // 07:00 in Chicago is 14:00 in Berlin: same days, different zone, separate entries.
+    expect(berlin.map((o) => o.date)).toEqual(chicago.map((o) => o.date));
+    expect(ruleOccurrences(rule, 'America/Chicago', { ...range, to: '2027-06-08' })).toHaveLength(
+      1,
+    );
+  });
+});
