@@ -400,7 +400,9 @@ describe('notifyLoanEvent', () => {
       mailer,
       logger: createLogger('silent'),
       messageIdDomain: 'evalon.example',
-      settings: { ...t.config.outbox, batchSize: 100 },
+      // This worker's database also holds what earlier test files enqueued and nobody drained
+      // (visits, shipments): claim everything due, so the message of this loan is in the batch.
+      settings: { ...t.config.outbox, batchSize: 100_000 },
     });
     await worker.drainOnce();
     const sent = mailer.to(f.fleetBerlin.email);
