@@ -173,6 +173,9 @@ export async function memberRow(page: Page, email: string): Promise<Locator> {
 export async function invite(page: Page, person: NewPerson, roleLabel: string): Promise<void> {
   await page.getByRole('button', { name: 'Invite someone' }).first().click();
   const dialog = page.getByRole('dialog', { name: /^Invite someone to / });
+  // The dialog moves focus to its first field once it has opened; on a busy machine that can
+  // land after a fill has begun and send the next field's text into Name. Wait for it first.
+  await expect(dialog.getByLabel('Name')).toBeFocused();
   await dialog.getByLabel('Name').fill(person.name);
   await dialog.getByLabel('E-mail address').fill(person.email);
   await dialog.getByRole('combobox', { name: 'Role' }).click();
