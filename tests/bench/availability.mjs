@@ -4,17 +4,18 @@
 // Prints p50 / p97.5 / p99 latency and requests per second of both and their ratio (and, for
 // context, of GET /api/auth/me, the cheapest signed-in request).
 // Targets (the issue's): search p97.5 ≤ 50 ms and ≥ 25 % of health's requests per second.
-import autocannon from 'autocannon';
 import {
   addDays,
   benchPassword,
   bulkInsert,
   freePort,
   loadFleet,
+  loadRoute,
+  loanColumns,
   mondayAfter,
-  ms,
   prepareDatabase,
   random,
+  reportLine,
   say,
   signIn,
   startServer,
@@ -70,26 +71,7 @@ async function loadLoans(db, fleet, hospitalCount) {
   const firstLoan = await bulkInsert(
     db,
     'loans',
-    [
-      'reference',
-      'state',
-      'hospital_id',
-      'site_id',
-      'site_time_zone',
-      'lender_id',
-      'use_from',
-      'use_to',
-      'ship_by',
-      'deliver_by',
-      'return_ship_by',
-      'back_at_depot',
-      'ready_again',
-      'deposit_amount',
-      'deposit_currency',
-      'requested_by_user_id',
-      'created_at',
-      'updated_at',
-    ],
+    loanColumns,
     loans.map((l, i) => [
       `EV-B-${String(i + 1).padStart(6, '0')}`,
       l.state,
@@ -189,19 +171,6 @@ async function loadLoans(db, fleet, hospitalCount) {
   return { loans: loans.length, holds: holds.length };
 }
 
-function summarise(name, result) {
-  return {
-    name,
-    p50: result.latency.p50,
-    p97_5: result.latency.p97_5,
-    p99: result.latency.p99,
-    rps: result.requests.average,
-    total: result.requests.total,
-    non2xx: result.non2xx,
-    errors: result.errors,
-  };
-}
-
 async function main() {
   const started = Date.now();
   const db = await prepareDatabase();
@@ -242,32 +211,22 @@ async function main() {
         `${withEarliest} with an earliest window found (window ${useFrom}..${useTo})`,
     );
 
-    const bench = (name, path, headers = {}) =>
-      autocannon({
-        url: server.url + path,
-        connections: CONNECTIONS,
-        duration: DURATION_S,
-        headers,
-      }).then((r) => summarise(name, r));
-    // Warm-up: JIT, connection pool, holiday calendars.
-    await autocannon({
-      url: server.url + searchPath,
-      connections: 4,
-      duration: 2,
+    const load = { connections: CONNECTIONS, duration: DURATION_S };
+    const health = await loadRoute(server.url, 'GET /api/health', '/api/health', load);
+    // Warm-up first: JIT, connection pool, holiday calendars.
+    const search = await loadRoute(server.url, 'GET /api/availability', searchPath, {
+      ...load,
       headers: { cookie: session.cookie },
+      warmUp: true,
     });
-    const health = await bench('GET /api/health', '/api/health');
-    const search = await bench('GET /api/availability', searchPath, { cookie: session.cookie });
     // For reading the ratio: the cheapest signed-in request (session, person and memberships
     // loaded, session touched), i.e. the floor under any signed-in endpoint.
-    const me = await bench('GET /api/auth/me', '/api/auth/me', { cookie: session.cookie });
+    const me = await loadRoute(server.url, 'GET /api/auth/me', '/api/auth/me', {
+      ...load,
+      headers: { cookie: session.cookie },
+    });
 
-    for (const r of [health, search, me]) {
-      say(
-        `${r.name.padEnd(22)} p50 ${ms(r.p50)}  p97.5 ${ms(r.p97_5)}  p99 ${ms(r.p99)}  ` +
-          `${r.rps.toFixed(0)} req/s  (${r.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors)`,
-      );
-    }
+    for (const r of [health, search, me]) say(reportLine(r));
     const ratio = search.rps / health.rps;
     say(`search req/s ÷ health req/s = ${(ratio * 100).toFixed(1)} %`);
     say(

@@ -2,6 +2,7 @@
 // a dedicated database, bulk loading, a built server on a free port, a signed-in session.
 // Benchmarks are scripts, not timed tests: they print what one run measured.
 import { spawn } from 'node:child_process';
+import autocannon from 'autocannon';
 import net from 'node:net';
 import path from 'node:path';
 import { hash } from '@node-rs/argon2';
@@ -353,3 +354,64 @@ export async function signIn(baseUrl, email, password) {
 
 /** Milliseconds with one decimal. */
 export const ms = (n) => `${Number(n).toFixed(1)} ms`;
+
+/** Columns of a bulk `loans` insert, in the order the benches give their rows. */
+export const loanColumns = [
+  'reference',
+  'state',
+  'hospital_id',
+  'site_id',
+  'site_time_zone',
+  'lender_id',
+  'use_from',
+  'use_to',
+  'ship_by',
+  'deliver_by',
+  'return_ship_by',
+  'back_at_depot',
+  'ready_again',
+  'deposit_amount',
+  'deposit_currency',
+  'requested_by_user_id',
+  'created_at',
+  'updated_at',
+];
+
+/** The latency and throughput figures of one autocannon run. */
+export function summarise(name, result) {
+  return {
+    name,
+    p50: result.latency.p50,
+    p97_5: result.latency.p97_5,
+    p99: result.latency.p99,
+    rps: result.requests.average,
+    total: result.requests.total,
+    non2xx: result.non2xx,
+    errors: result.errors,
+  };
+}
+
+/**
+ * Runs autocannon against one route of a running server: `connections` for `duration` seconds,
+ * after a short warm-up (JIT, connection pool, caches) when `warmUp` is set.
+ */
+export async function loadRoute(
+  baseUrl,
+  name,
+  route,
+  { headers = {}, connections = 16, duration = 20, warmUp = false } = {},
+) {
+  if (warmUp) await autocannon({ url: baseUrl + route, connections: 4, duration: 2, headers });
+  return summarise(
+    name,
+    await autocannon({ url: baseUrl + route, connections, duration, headers }),
+  );
+}
+
+/** One printed line per route: latency percentiles, requests per second, failures. */
+export function reportLine(r, width = 22) {
+  return (
+    `${r.name.padEnd(width)} p50 ${ms(r.p50)}  p97.5 ${ms(r.p97_5)}  p99 ${ms(r.p99)}  ` +
+    `${r.rps.toFixed(0)} req/s  (${r.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors)`
+  );
+}

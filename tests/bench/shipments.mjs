@@ -13,6 +13,7 @@ import {
   bulkInsert,
   freePort,
   loadFleet,
+  loanColumns,
   mondayAfter,
   ms,
   prepareDatabase,
@@ -69,31 +70,7 @@ async function main() {
       now,
     ]);
   }
-  const firstLoan = await bulkInsert(
-    db,
-    'loans',
-    [
-      'reference',
-      'state',
-      'hospital_id',
-      'site_id',
-      'site_time_zone',
-      'lender_id',
-      'use_from',
-      'use_to',
-      'ship_by',
-      'deliver_by',
-      'return_ship_by',
-      'back_at_depot',
-      'ready_again',
-      'deposit_amount',
-      'deposit_currency',
-      'requested_by_user_id',
-      'created_at',
-      'updated_at',
-    ],
-    loanRows,
-  );
+  const firstLoan = await bulkInsert(db, 'loans', loanColumns, loanRows);
   const states = ['to_pack', 'packed', 'handed_over', 'in_transit'];
   const shipmentRows = loanRows.map((l, i) => [
     `${l[0]}-O1`,

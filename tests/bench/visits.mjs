@@ -5,17 +5,18 @@
 // both and their ratio, and the time of a first (not cached) search of seven other windows.
 // Targets (issue 7): candidates p97.5 ≤ 50 ms and ≥ 25 % of health's requests per second.
 import { performance } from 'node:perf_hooks';
-import autocannon from 'autocannon';
 import {
   addDays,
   benchPassword,
   bulkInsert,
   freePort,
   loadFleet,
+  loadRoute,
   mondayAfter,
   ms,
   prepareDatabase,
   random,
+  reportLine,
   say,
   signIn,
   startServer,
@@ -209,19 +210,6 @@ async function loadProctors(db, fleet) {
   return { visits: visits.length };
 }
 
-function summarise(name, result) {
-  return {
-    name,
-    p50: result.latency.p50,
-    p97_5: result.latency.p97_5,
-    p99: result.latency.p99,
-    rps: result.requests.average,
-    total: result.requests.total,
-    non2xx: result.non2xx,
-    errors: result.errors,
-  };
-}
-
 async function main() {
   const started = Date.now();
   const db = await prepareDatabase();
@@ -279,29 +267,15 @@ async function main() {
         `max ${ms(cold[6])} over 7 windows`,
     );
 
-    const bench = (name, url, headers = {}) =>
-      autocannon({
-        url: server.url + url,
-        connections: CONNECTIONS,
-        duration: DURATION_S,
-        headers,
-      }).then((r) => summarise(name, r));
-    await autocannon({
-      url: server.url + path,
-      connections: 4,
-      duration: 2,
+    const load = { connections: CONNECTIONS, duration: DURATION_S };
+    const health = await loadRoute(server.url, 'GET /api/health', '/api/health', load);
+    // Warm-up first (JIT, connection pool), then the measured run.
+    const candidates = await loadRoute(server.url, 'GET /api/visits/candidates', path, {
+      ...load,
       headers: { cookie: session.cookie },
+      warmUp: true,
     });
-    const health = await bench('GET /api/health', '/api/health');
-    const candidates = await bench('GET /api/visits/candidates', path, {
-      cookie: session.cookie,
-    });
-    for (const r of [health, candidates]) {
-      say(
-        `${r.name.padEnd(28)} p50 ${ms(r.p50)}  p97.5 ${ms(r.p97_5)}  p99 ${ms(r.p99)}  ` +
-          `${r.rps.toFixed(0)} req/s  (${r.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors)`,
-      );
-    }
+    for (const r of [health, candidates]) say(reportLine(r, 28));
     const ratio = candidates.rps / health.rps;
     say(`candidates req/s ÷ health req/s = ${(ratio * 100).toFixed(1)} %`);
     say(

@@ -278,6 +278,38 @@ export async function requestVisit(
   return getVisit(deps.dataSource.manager, auth, visitId);
 }
 
+/**
+ * Locks a visit for a step only its hospital's requesters take (widen, cancel): 404 when the
+ * person may not see it, 403 when they are not one of its buyers or clinicians, 409 when its
+ * state does not allow the step.
+ */
+async function lockRequesterVisit(
+  m: EntityManager,
+  auth: AuthContext,
+  visitId: number,
+  action: 'reopen' | 'cancel',
+) {
+  const visit = await findVisit(m, visitId, true);
+  const offers = visit ? await findOffers(m, visitId) : [];
+  if (!visit || !canSeeVisit(auth, visit, offers)) {
+    throw AppError.notFound('visit_not_found', 'There is no such visit.');
+  }
+  if (!isRequesterOf(auth, visit.hospitalId)) {
+    throw AppError.forbidden(
+      'forbidden',
+      action === 'cancel'
+        ? 'Only the hospital’s buyers and clinicians can cancel a visit.'
+        : 'Only the hospital’s buyers and clinicians can do this.',
+    );
+  }
+  if (!canDo(visit.state, action)) {
+    throw AppError.conflict('illegal_transition', illegalMessage(visit.state, action), {
+      state: visit.state,
+    });
+  }
+  return { visit, offers };
+}
+
 /** The requester widens the search of an unfilled visit with more candidates. */
 export async function reopenVisit(
   deps: VisitDeps,
@@ -287,22 +319,7 @@ export async function reopenVisit(
 ): Promise<VisitDetail> {
   const now = deps.now();
   await deps.dataSource.transaction('READ COMMITTED', async (m) => {
-    const visit = await findVisit(m, visitId, true);
-    const offers = visit ? await findOffers(m, visitId) : [];
-    if (!visit || !canSeeVisit(auth, visit, offers)) {
-      throw AppError.notFound('visit_not_found', 'There is no such visit.');
-    }
-    if (!isRequesterOf(auth, visit.hospitalId)) {
-      throw AppError.forbidden(
-        'forbidden',
-        'Only the hospital’s buyers and clinicians can do this.',
-      );
-    }
-    if (!canDo(visit.state, 'reopen')) {
-      throw AppError.conflict('illegal_transition', illegalMessage(visit.state, 'reopen'), {
-        state: visit.state,
-      });
-    }
+    const { visit, offers } = await lockRequesterVisit(m, auth, visitId, 'reopen');
     const listed = new Set(offers.map((o) => o.proctorUserId));
     const index = (proctorIds ?? []).findIndex((p) => listed.has(p));
     if (index >= 0) {
@@ -543,22 +560,7 @@ export async function cancelVisit(
 ): Promise<VisitDetail> {
   const now = deps.now();
   await deps.dataSource.transaction('READ COMMITTED', async (m) => {
-    const visit = await findVisit(m, visitId, true);
-    const offers = visit ? await findOffers(m, visitId) : [];
-    if (!visit || !canSeeVisit(auth, visit, offers)) {
-      throw AppError.notFound('visit_not_found', 'There is no such visit.');
-    }
-    if (!isRequesterOf(auth, visit.hospitalId)) {
-      throw AppError.forbidden(
-        'forbidden',
-        'Only the hospital’s buyers and clinicians can cancel a visit.',
-      );
-    }
-    if (!canDo(visit.state, 'cancel')) {
-      throw AppError.conflict('illegal_transition', illegalMessage(visit.state, 'cancel'), {
-        state: visit.state,
-      });
-    }
+    const { visit, offers } = await lockRequesterVisit(m, auth, visitId, 'cancel');
     const live = offers.find((o) => o.state === 'offered');
     await closeQueuedOffers(m, visit.id, 'withdrawn');
     await updateVisit(m, visit.id, { state: 'cancelled' }, now);
