@@ -37,6 +37,16 @@ export const shipmentStateLabels: Record<ShipmentState, string> = {
   exception: 'Carrier exception',
 };
 
+/** The carrier's tracking statuses in people's words (unknown ones are shown as sent). */
+export const carrierStatusLabels: Readonly<Record<string, string>> = {
+  booked: 'Booked with the carrier',
+  picked_up: 'Picked up by the carrier',
+  in_transit: 'In transit',
+  out_for_delivery: 'Out for delivery',
+  delivered: 'Delivered',
+  exception: 'Carrier exception',
+};
+
 /** Whether the shipment is on time, at risk (ETA after the deadline) or overdue. */
 export const shipmentRisks = ['on_time', 'at_risk', 'overdue'] as const;
 export const shipmentRisk = z.enum(shipmentRisks);

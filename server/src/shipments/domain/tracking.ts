@@ -1,3 +1,4 @@
+import { carrierStatusLabels } from '@evalon/contracts';
 import { lockLoan } from '../../loans';
 import {
   findShipment,
@@ -15,14 +16,6 @@ import { canMove, carrierRank, isUnderway, stateForCarrierStatus } from './state
 
 /** What became of a tracking event. */
 export type TrackingOutcome = 'applied' | 'duplicate' | 'stale' | 'unknown_tracking';
-
-const statusWords: Record<string, string> = {
-  booked: 'Booked with the carrier',
-  picked_up: 'Picked up by the carrier',
-  in_transit: 'In transit',
-  out_for_delivery: 'Out for delivery',
-  delivered: 'Delivered',
-};
 
 /**
  * Applies one carrier tracking event. Each carrier event id is stored once (a repeated delivery
@@ -49,7 +42,7 @@ export async function handleTrackingEvent(
     const words =
       event.status === 'exception'
         ? `Carrier exception: ${event.detail ?? 'unspecified'}`
-        : (statusWords[event.status] ?? event.status);
+        : (carrierStatusLabels[event.status] ?? event.status);
     const stored = await insertEvent(
       m,
       {

@@ -32,7 +32,7 @@ const whyWords: Partial<Record<string, string>> = {
   selector: 'ev-proctor-availability',
   imports: [FormsModule, MatButtonModule, MatCardModule, MatIconModule, PageHeader, RouterLink],
   template: `
-    <a mat-button routerLink="/proctor"><mat-icon>arrow_back</mat-icon> Offers and visits</a>
+    <a mat-button routerLink="/proctor"><mat-icon>arrow_back</mat-icon> Visit offers</a>
     <ev-page-header
       heading="Availability"
       [subtitle]="

@@ -38,7 +38,7 @@ const statusWords: Record<Credential['status'], string> = {
     RouterLink,
   ],
   template: `
-    <a mat-button routerLink="/proctor"><mat-icon>arrow_back</mat-icon> Offers and visits</a>
+    <a mat-button routerLink="/proctor"><mat-icon>arrow_back</mat-icon> Visit offers</a>
     <ev-page-header
       heading="Credentials"
       subtitle="Visits are offered only where a licence of yours is valid on every day, travel days included."

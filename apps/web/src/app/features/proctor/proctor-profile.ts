@@ -37,7 +37,7 @@ const list = (text: string) =>
     RouterLink,
   ],
   template: `
-    <a mat-button routerLink="/proctor"><mat-icon>arrow_back</mat-icon> Offers and visits</a>
+    <a mat-button routerLink="/proctor"><mat-icon>arrow_back</mat-icon> Visit offers</a>
     <ev-page-header
       heading="Proctor profile"
       subtitle="What hospitals see when Evalon ranks you for a visit."

@@ -6,7 +6,7 @@ import { ProctorProfileEditor } from './proctor-profile';
 
 /** `/proctor`: offers and visits, profile, credentials and availability (role `proctor`). */
 export const proctorRoutes: Routes = [
-  { path: '', component: ProctorHome, title: 'Offers and visits' },
+  { path: '', component: ProctorHome, title: 'Visit offers' },
   { path: 'profile', component: ProctorProfileEditor, title: 'Proctor profile' },
   { path: 'credentials', component: ProctorCredentials, title: 'Credentials' },
   { path: 'availability', component: ProctorAvailability, title: 'Availability' },

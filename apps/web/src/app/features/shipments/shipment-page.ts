@@ -18,7 +18,7 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
-import { shipmentStateLabels, type ShipmentDetail } from '@evalon/contracts';
+import { carrierStatusLabels, shipmentStateLabels, type ShipmentDetail } from '@evalon/contracts';
 import { catchError, of, switchMap, type Observable } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
@@ -111,6 +111,7 @@ export class ShipmentPage {
   readonly id = input.required<string>();
 
   protected readonly labels = shipmentStateLabels;
+  protected readonly carrierLabels = carrierStatusLabels;
   protected readonly shipment = signal<ShipmentDetail | null>(null);
   protected readonly loadError = signal<string | null>(null);
   protected readonly busy = signal(false);
