@@ -38,7 +38,7 @@ export const shipmentStateLabels: Record<ShipmentState, string> = {
 };
 
 /** The carrier's tracking statuses in people's words (unknown ones are shown as sent). */
-export const carrierStatusLabels: Readonly<Record<string, string>> = {
+export const carrierStatusLabels: Readonly<Partial<Record<string, string>>> = {
   booked: 'Booked with the carrier',
   picked_up: 'Picked up by the carrier',
   in_transit: 'In transit',
