@@ -146,7 +146,9 @@ async function runE2e() {
     const out = path.join(reports, 'playwright.json');
     fs.rmSync(out, { force: true });
     log('browser tests (Playwright, Debian Chromium)');
-    step(node, [bin('@playwright/test/cli.js'), 'test', '-c', 'tests/e2e/playwright.config.ts'], {
+    // EVALON_E2E_ARGS narrows a local run (e.g. "tests/e2e/visits.e2e.ts" or "--grep receipt").
+    const extra = (process.env.EVALON_E2E_ARGS ?? '').split(' ').filter(Boolean);
+    step(node, [bin('@playwright/test/cli.js'), 'test', '-c', 'tests/e2e/playwright.config.ts', ...extra], {
       env: { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: out },
     });
     if (fs.existsSync(out)) {
