@@ -1,10 +1,7 @@
 import { addCalendarDays } from '@evalon/scheduling';
 import { createLogger } from '../src/logger';
 import { createVisitDeps, runOfferDeadlines } from '../src/visits';
-import {
-  credentialNotifierFromConfig,
-  visitNotifierFromConfig,
-} from '../src/notifications';
+import { credentialNotifierFromConfig, visitNotifierFromConfig } from '../src/notifications';
 import { runCredentialWarnings } from '../src/proctors';
 import { startTestApp, type TestApp } from './helpers/app';
 import {
@@ -21,13 +18,28 @@ import { signedInClient, type Client } from './helpers/http';
 import { homes, makeProctor, setSubdivision, type TestProctor } from './helpers/proctors';
 
 let t: TestApp;
+/**
+ * The same app and database with its clock set to a chosen instant (`clockAt`): cases are
+ * recorded only on a visit's days, so steps taken "on the day" go through this one.
+ */
+let onTheDay: TestApp;
+let clockAt = new Date();
 beforeAll(async () => {
   t = await startTestApp({}, { outboxWorker: false });
+  onTheDay = await startTestApp({}, { outboxWorker: false, now: () => clockAt });
 });
-afterAll(() => t.close());
+afterAll(async () => {
+  await onTheDay.close();
+  await t.close();
+});
 
 const sign = (person: { email: string; password: string }) =>
   signedInClient(t.app, person.email, person.password);
+/** Signed in to the app whose clock reads `clockAt`. */
+const signOnTheDay = (person: { email: string; password: string }) =>
+  signedInClient(onTheDay.app, person.email, person.password);
+/** 10:00 in Boston (UTC−5 in winter, −4 in summer: 14:00Z is 09:00 or 10:00 there) on `date`. */
+const bostonMorning = (date: string) => new Date(`${date}T14:00:00Z`);
 const post = (client: Client, path: string, body: object = {}) =>
   client.agent.post(path).set('X-XSRF-TOKEN', client.csrf).send(body);
 
@@ -545,6 +557,7 @@ describe('correctness under contention', () => {
 });
 
 describe('cases and sign-off', () => {
+  /** A visit accepted today; `proctor` acts on the first visit day (the clock of `onTheDay`). */
   async function acceptedVisit(): Promise<{
     w: World;
     p: TestProctor;
@@ -558,9 +571,9 @@ describe('cases and sign-off', () => {
       '/api/visits',
       visitBody(w, { proctorIds: [p.userId] }),
     ).expect(201);
-    const proctor = await sign(p);
-    await post(proctor, `/api/visits/${created.body.visit.id}/accept`).expect(200);
-    return { w, p, proctor, id: created.body.visit.id };
+    await post(await sign(p), `/api/visits/${created.body.visit.id}/accept`).expect(200);
+    clockAt = bostonMorning(w.from);
+    return { w, p, proctor: await signOnTheDay(p), id: created.body.visit.id };
   }
   const ratings = {
     setup: 4,
@@ -688,6 +701,188 @@ describe('cases and sign-off', () => {
 
     const again = await post(proctor, `/api/visits/${id}/sign-offs`, { traineeUserId: trainee });
     expect(again.status).toBe(409);
+  });
+});
+
+describe('a proctor withdraws from an accepted visit', () => {
+  it('before the first day: offer withdrawn, CANCEL to them, hospital told, the next one offered', async () => {
+    const w = await world(50);
+    const first = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const second = await makeProctor(t.dataSource, { experience: { [w.modelId]: 30 } });
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [first.userId, second.userId] }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    const firstClient = await sign(first);
+    await post(firstClient, `/api/visits/${id}/accept`).expect(200);
+
+    // A reason is required, at least 10 characters; nothing changes without one.
+    const short = await post(firstClient, `/api/visits/${id}/withdraw`, { reason: 'Sorry.' });
+    expect(short.status).toBe(422);
+    expect(short.body.error.details.fieldErrors).toHaveProperty('reason');
+    // The passed-over candidate (their offer closed as skipped) is not the visit's proctor.
+    const secondClient = await sign(second);
+    expect(
+      (await post(secondClient, `/api/visits/${id}/withdraw`, { reason: 'Not my visit at all.' }))
+        .status,
+    ).toBe(403);
+    const [still] = await t.dataSource.query(
+      'SELECT state, proctor_user_id FROM visits WHERE id = ?',
+      [id],
+    );
+    expect([still.state, Number(still.proctor_user_id)]).toEqual(['accepted', first.userId]);
+
+    const reason = 'A family emergency keeps me at home that week.';
+    const res = await post(firstClient, `/api/visits/${id}/withdraw`, { reason });
+    expect(res.status).toBe(200);
+    expect(res.body.visit.state).toBe('offered');
+
+    // The hospital sees the next candidate offered, the withdrawn offer with its reason.
+    const seen = (await w.buyer.agent.get(`/api/visits/${id}`).expect(200)).body.visit;
+    expect(seen.currentOffer.proctorId).toBe(second.userId);
+    expect(seen.offers.map((o: { state: string }) => o.state)).toEqual(['withdrawn', 'offered']);
+    expect(seen.offers[0].reason).toBe(reason);
+    expect(seen.events.map((e: { kind: string }) => e.kind)).toEqual([
+      'requested',
+      'offered',
+      'accepted',
+      'withdrawn',
+      'offered',
+    ]);
+    const [row] = await t.dataSource.query(
+      'SELECT state, proctor_user_id, busy_from, invite_sequence FROM visits WHERE id = ?',
+      [id],
+    );
+    expect(row).toMatchObject({ state: 'offered', proctor_user_id: null, busy_from: null });
+    expect(Number(row.invite_sequence)).toBe(1);
+
+    // E-mail: the proctor gets the CANCEL naming only them; the requester the reason, no invite.
+    const mail = await outbox(id);
+    const withdrawn = mail.filter((m) => m.dedupe_key.includes(':withdrawn:'));
+    const toProctor = withdrawn.find(
+      (m) => (jsonColumn(m.to_addresses) as string[])[0] === first.email,
+    )!;
+    const ics = icsOf(toProctor)!;
+    // RFC 5546 §3.2.5: METHOD:CANCEL, STATUS:CANCELLED, same UID, SEQUENCE above the REQUEST's.
+    expect(ics).toMatch(/METHOD:CANCEL/);
+    expect(ics).toMatch(/STATUS:CANCELLED/);
+    expect(ics).toMatch(/SEQUENCE:1/);
+    expect(ics).toContain(`UID:visit-${id}@`);
+    expect(ics.match(/^ATTENDEE/gm)).toHaveLength(1);
+    const toBuyer = withdrawn.find(
+      (m) => (jsonColumn(m.to_addresses) as string[])[0] === w.hospital.buyer.email,
+    )!;
+    expect(toBuyer.subject).toMatch(/withdrew/);
+    expect(toBuyer.text).toContain(reason);
+    expect(icsOf(toBuyer)).toBeNull();
+    expect(mail.some((m) => m.dedupe_key.startsWith(`visit:${id}:offered:${second.userId}:`))).toBe(
+      true,
+    );
+    // In-app notice to the requester; an audit event in the hospital's trail.
+    const notices = await t.dataSource.query(
+      'SELECT title FROM notifications WHERE user_id = ? AND kind = ?',
+      [w.hospital.buyer.userId, 'visit.withdrawn'],
+    );
+    expect(notices).toHaveLength(1);
+    const audit = await t.dataSource.query(
+      'SELECT actor_user_id, organisation_id, detail FROM audit_events WHERE action = ? AND subject = ?',
+      ['visit.proctor_withdrew', `visit:${id}`],
+    );
+    expect(audit).toHaveLength(1);
+    expect(Number(audit[0].organisation_id)).toBe(w.hospital.id);
+    expect(Number(audit[0].actor_user_id)).toBe(first.userId);
+
+    // The next proctor accepts: their REQUEST supersedes the CANCEL (SEQUENCE 2, RFC 5545
+    // §3.8.7.4), and the requester hears of this acceptance too.
+    await post(secondClient, `/api/visits/${id}/accept`).expect(200);
+    const accepted = (await outbox(id)).filter((m) =>
+      m.dedupe_key.startsWith(`visit:${id}:accepted:${second.userId}:`),
+    );
+    expect(accepted.map((m) => (jsonColumn(m.to_addresses) as string[])[0]).sort()).toEqual(
+      [w.hospital.buyer.email, second.email].sort(),
+    );
+    for (const m of accepted) expect(icsOf(m)).toMatch(/SEQUENCE:2/);
+    // The first proctor is no longer the visit's: a second withdrawal is refused.
+    expect((await post(firstClient, `/api/visits/${id}/withdraw`, { reason })).status).toBe(403);
+  });
+
+  it('with nobody left the visit is unfilled; from the first visit day on it is refused (409)', async () => {
+    const w = await world(55);
+    const only = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const a = await post(w.buyer, '/api/visits', visitBody(w, { proctorIds: [only.userId] }));
+    const id = a.body.visit.id as number;
+    await post(await sign(only), `/api/visits/${id}/accept`).expect(200);
+
+    // On the first visit day (Boston morning) the withdrawal is refused and nothing changes.
+    clockAt = bostonMorning(w.from);
+    const onDay = await post(await signOnTheDay(only), `/api/visits/${id}/withdraw`, {
+      reason: 'My flight was cancelled this morning.',
+    });
+    expect(onDay.status).toBe(409);
+    expect(onDay.body.error.code).toBe('visit_started');
+    expect(onDay.body.error.message).toContain(`started on ${w.from}`);
+    // The evening before (23:30 in Boston, already the first day in UTC) is still before it.
+    clockAt = new Date(`${w.from}T04:30:00Z`);
+    const eve = await post(await signOnTheDay(only), `/api/visits/${id}/withdraw`, {
+      reason: 'My flight was cancelled this evening.',
+    });
+    expect(eve.status).toBe(200);
+    expect(eve.body.visit.state).toBe('unfilled');
+    const [offer] = await t.dataSource.query(
+      'SELECT state FROM visit_offers WHERE visit_id = ? AND proctor_user_id = ?',
+      [id, only.userId],
+    );
+    expect(offer.state).toBe('withdrawn');
+    expect((await outbox(id)).some((m) => /no proctor could take it/.test(m.subject))).toBe(true);
+  });
+});
+
+describe('cases only on visit days', () => {
+  it('before the first day 422 naming the day; on it 201; after cancellation 409', async () => {
+    const w = await world(40);
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [p.userId] }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    await post(await sign(p), `/api/visits/${id}/accept`).expect(200);
+    const caseBody = (caseNumber: number) => ({
+      caseNumber,
+      traineeUserId: w.hospital.clinician.userId,
+      traineeRole: 'observed',
+      ratings: {
+        setup: 3,
+        docking: 3,
+        instrument_handling: 3,
+        troubleshooting: 3,
+        team_communication: 3,
+      },
+    });
+
+    // The day before the first visit day, at 18:00 in Boston.
+    clockAt = new Date(`${addCalendarDays(w.from, -1)}T23:00:00Z`);
+    const early = await post(await signOnTheDay(p), `/api/visits/${id}/cases`, caseBody(1));
+    expect(early.status).toBe(422);
+    expect(early.body.error.code).toBe('before_visit');
+    expect(early.body.error.message).toBe(
+      `Cases can be recorded from ${w.from}, the visit’s first day (America/New_York).`,
+    );
+    expect(await countRows(t.dataSource, 'visit_cases', 'visit_id = ?', [id])).toBe(0);
+
+    clockAt = bostonMorning(w.from);
+    const onDay = await signOnTheDay(p);
+    await post(onDay, `/api/visits/${id}/cases`, caseBody(1)).expect(201);
+    await post(w.buyer, `/api/visits/${id}/cancel`, { reason: 'The loan was called off.' }).expect(
+      200,
+    );
+    const after = await post(onDay, `/api/visits/${id}/cases`, caseBody(2));
+    expect(after.status).toBe(409);
+    expect(after.body.error.code).toBe('visit_cancelled');
+    expect(await countRows(t.dataSource, 'visit_cases', 'visit_id = ?', [id])).toBe(1);
   });
 });
 

@@ -397,3 +397,21 @@ export const visitQuery = z.object({
 export const declineOfferRequest = z
   .object({ reason: z.string().trim().min(3, 'Say why in a few words.').max(1000) })
   .meta({ id: 'DeclineOfferRequest' });
+
+/** Shortest reason a proctor gives when withdrawing from an accepted visit. */
+export const withdrawReasonMinLength = 10;
+
+/** `POST /api/visits/:id/withdraw`: the accepted proctor steps back before the first visit day. */
+export const withdrawVisitRequest = z
+  .object({
+    reason: z
+      .string()
+      .trim()
+      .min(
+        withdrawReasonMinLength,
+        `Tell the hospital why in at least ${withdrawReasonMinLength} characters.`,
+      )
+      .max(1000),
+  })
+  .meta({ id: 'WithdrawVisitRequest' });
+export type WithdrawVisitRequest = z.infer<typeof withdrawVisitRequest>;

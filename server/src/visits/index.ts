@@ -66,7 +66,14 @@ export function createVisitDeps(input: {
     settings: { ...defaultVisitSettings, ...input.settings },
   };
 }
-export { acceptOffer, cancelVisit, declineOffer, reopenVisit, requestVisit } from './domain/offers';
+export {
+  acceptOffer,
+  cancelVisit,
+  declineOffer,
+  reopenVisit,
+  requestVisit,
+  withdrawFromVisit,
+} from './domain/offers';
 export { completeVisit, recordCase, signOffTrainee } from './domain/records';
 
 /** Proctoring visits, `/api/visits`, and the offer-deadline job. */

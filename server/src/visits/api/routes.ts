@@ -13,6 +13,7 @@ import {
   visitParams,
   visitQuery,
   visitResponse,
+  withdrawVisitRequest,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
@@ -24,6 +25,7 @@ import {
   declineOffer,
   reopenVisit,
   requestVisit,
+  withdrawFromVisit,
 } from '../domain/offers';
 import { getVisit, listVisits } from '../domain/queries';
 import { completeVisit, readSignOffPdf, recordCase, signOffTrainee } from '../domain/records';
@@ -155,6 +157,34 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
     },
     async ({ req, res, params, body }) => {
       res.json({ visit: await declineOffer(deps, currentAuth(req), params.id, body.reason) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/:id/withdraw',
+      summary: 'Withdraw from a visit you accepted, before its first day, with a reason',
+      description:
+        'Your offer ends as withdrawn and a calendar CANCEL (RFC 5546) goes to you; the ' +
+        'hospital is told and the next candidate on its list is offered, as after a decline. ' +
+        'From the first visit day (campus time zone) on it is refused with 409 `visit_started`.',
+      access: { roles: ['proctor'] },
+      params: visitParams,
+      body: withdrawVisitRequest,
+      responses: {
+        200: {
+          description: 'Withdrawn; the visit is offered again (or unfilled).',
+          schema: visitResponse,
+        },
+        403: error('Not the visit’s proctor.'),
+        404: error('No such visit (or not yours).'),
+        409: error('`visit_started`, `illegal_transition`.'),
+        422: error('A reason of at least 10 characters is required.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json({ visit: await withdrawFromVisit(deps, currentAuth(req), params.id, body.reason) });
     },
   );
 

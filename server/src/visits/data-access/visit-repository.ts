@@ -314,6 +314,19 @@ export async function closeQueuedOffers(
   );
 }
 
+/**
+ * Puts back in the queue the candidates an acceptance passed over (closed as `skipped` without a
+ * reason and never offered), so a withdrawal offers the visit to the next of them.
+ */
+export async function requeuePassedOver(m: EntityManager, visitId: number): Promise<number> {
+  const result: { affectedRows?: number } = await m.query(
+    `UPDATE visit_offers SET state = 'queued'
+      WHERE visit_id = ? AND state = 'skipped' AND reason IS NULL AND offered_at IS NULL`,
+    [visitId],
+  );
+  return Number(result.affectedRows ?? 0);
+}
+
 /** When each proctor was last offered a visit (the ranking spreads the work). */
 export async function lastOfferedAt(
   m: EntityManager,
