@@ -886,6 +886,94 @@ describe('cases only on visit days', () => {
   });
 });
 
+describe('a clinician’s training record', () => {
+  it('shows only their own cases, the count against the threshold and the sign-off PDF', async () => {
+    const w = await world(42);
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const peer = await makePerson(t.dataSource, w.hospital.id, 'clinician');
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [p.userId], cases: 5 }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    await post(await sign(p), `/api/visits/${id}/accept`).expect(200);
+    const me = w.hospital.clinician;
+    const clinician = await sign(me);
+
+    // No cases yet: an empty record, not an error.
+    const empty = await clinician.agent.get('/api/visits/training-record').expect(200);
+    expect(empty.body).toEqual({
+      trainee: { userId: me.userId, name: expect.any(String) },
+      progress: [],
+      visits: [],
+    });
+
+    clockAt = bostonMorning(w.from);
+    const proctor = await signOnTheDay(p);
+    const record = (caseNumber: number, traineeUserId: number, traineeRole: string) =>
+      post(proctor, `/api/visits/${id}/cases`, {
+        caseNumber,
+        traineeUserId,
+        traineeRole,
+        ratings: {
+          setup: caseNumber,
+          docking: 3,
+          instrument_handling: 4,
+          troubleshooting: 3,
+          team_communication: 5,
+        },
+      }).expect(201);
+    await record(1, me.userId, 'observed');
+    await record(2, peer.userId, 'performed_supervised');
+    await record(3, me.userId, 'performed_supervised');
+    await record(4, me.userId, 'performed_supervised');
+
+    const mid = (await clinician.agent.get('/api/visits/training-record').expect(200)).body;
+    expect(mid.visits).toHaveLength(1);
+    expect(mid.visits[0]).toMatchObject({ visitId: id, state: 'accepted', signOff: null });
+    // Only their own cases: 1, 3 and 4, never the peer's case 2.
+    expect(mid.visits[0].cases.map((c: { caseNumber: number }) => c.caseNumber)).toEqual([1, 3, 4]);
+    expect(mid.visits[0].cases[0]).toMatchObject({
+      traineeRole: 'observed',
+      ratings: { setup: 1, team_communication: 5 },
+    });
+    // Observed cases do not count; the hospital's default threshold is 3 (survey mean 3.24,
+    // reference-values.md).
+    expect(mid.progress).toEqual([
+      expect.objectContaining({
+        hospitalId: w.hospital.id,
+        modelId: w.modelId,
+        supervisedCases: 2,
+        threshold: 3,
+        signedOff: false,
+      }),
+    ]);
+
+    await record(5, me.userId, 'performed_supervised');
+    const signed = await post(proctor, `/api/visits/${id}/sign-offs`, {
+      traineeUserId: me.userId,
+    }).expect(201);
+    const after = (await clinician.agent.get('/api/visits/training-record').expect(200)).body;
+    expect(after.progress[0]).toMatchObject({ supervisedCases: 3, signedOff: true });
+    const signOff = after.visits[0].signOff;
+    expect(signOff).toMatchObject({ proctoredCases: 3, threshold: 3 });
+    expect(signOff.id).toBe(signed.body.visit.signOffs[0].id);
+    const pdf = await clinician.agent.get(signOff.pdfUrl).buffer(true);
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers['content-type']).toBe('application/pdf');
+
+    // The peer sees their own single case; buyers and proctors have no training record.
+    const peerRecord = (await (await sign(peer)).agent.get('/api/visits/training-record')).body;
+    expect(peerRecord.visits[0].cases.map((c: { caseNumber: number }) => c.caseNumber)).toEqual([
+      2,
+    ]);
+    expect(peerRecord.progress[0]).toMatchObject({ supervisedCases: 1, signedOff: false });
+    await w.buyer.agent.get('/api/visits/training-record').expect(403);
+    await (await sign(p)).agent.get('/api/visits/training-record').expect(403);
+  });
+});
+
 describe('credential warnings', () => {
   it('warns once, 60 days ahead, by e-mail and in-app; the profile shows the credential as expiring', async () => {
     const soon = addCalendarDays(new Date().toISOString().slice(0, 10), 30);

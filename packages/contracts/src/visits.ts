@@ -415,3 +415,61 @@ export const withdrawVisitRequest = z
   })
   .meta({ id: 'WithdrawVisitRequest' });
 export type WithdrawVisitRequest = z.infer<typeof withdrawVisitRequest>;
+
+/** One visit in a clinician's training record: their own cases on it and their sign-off. */
+export const trainingVisit = z.object({
+  visitId: z.number().int(),
+  reference: z.string(),
+  state: visitState,
+  hospitalName: z.string(),
+  siteName: z.string(),
+  siteTimeZone: z.string(),
+  modelId: z.number().int(),
+  modelName: z.string(),
+  from: isoDate,
+  to: isoDate,
+  proctorName: z.string().nullable(),
+  /** The trainee's own cases on the visit (never other trainees'). */
+  cases: z.array(
+    z.object({
+      caseNumber: z.number().int(),
+      traineeRole: z.enum(traineeRoles),
+      ratings: z.record(z.string(), z.number()),
+      recordedAt: z.string(),
+    }),
+  ),
+  signOff: z
+    .object({
+      id: z.number().int(),
+      signedAt: z.string(),
+      proctoredCases: z.number().int(),
+      threshold: z.number().int(),
+      /** Download link of the one-page record (PDF). */
+      pdfUrl: z.string(),
+    })
+    .nullable(),
+});
+export type TrainingVisit = z.infer<typeof trainingVisit>;
+
+/** Progress towards sign-off per hospital and model: cases performed under supervision. */
+export const trainingProgress = z.object({
+  hospitalId: z.number().int(),
+  hospitalName: z.string(),
+  modelId: z.number().int(),
+  modelName: z.string(),
+  supervisedCases: z.number().int(),
+  /** The hospital's sign-off threshold (setting, default 3). */
+  threshold: z.number().int(),
+  signedOff: z.boolean(),
+});
+export type TrainingProgress = z.infer<typeof trainingProgress>;
+
+/** `GET /api/visits/training-record`: the signed-in clinician's own record. */
+export const trainingRecord = z
+  .object({
+    trainee: z.object({ userId: z.number().int(), name: z.string() }),
+    progress: z.array(trainingProgress),
+    visits: z.array(trainingVisit),
+  })
+  .meta({ id: 'TrainingRecord' });
+export type TrainingRecord = z.infer<typeof trainingRecord>;

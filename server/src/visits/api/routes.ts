@@ -9,6 +9,7 @@ import {
   id,
   reasonRequest,
   signOffInput,
+  trainingRecord,
   visitList,
   visitParams,
   visitQuery,
@@ -28,6 +29,7 @@ import {
   withdrawFromVisit,
 } from '../domain/offers';
 import { getVisit, listVisits } from '../domain/queries';
+import { trainingRecordOf } from '../domain/training';
 import { completeVisit, readSignOffPdf, recordCase, signOffTrainee } from '../domain/records';
 
 const error = (description: string) => ({ description, schema: errorBody });
@@ -60,6 +62,30 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
     },
     async ({ req, res, query }) => {
       res.json({ items: await listCandidates(deps, currentAuth(req), query) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/training-record',
+      summary: 'Your own training record as a trainee (clinicians)',
+      description:
+        'Visits on which you were a trainee with your cases (role, ratings) and sign-offs, and ' +
+        'per hospital and model your cases performed under supervision against the hospital’s ' +
+        'sign-off threshold. Only your own record. Evalon documents; privileging remains the ' +
+        'hospital’s decision.',
+      access: { roles: ['clinician'] },
+      responses: {
+        200: {
+          description: 'Your record (empty lists when you have no cases yet).',
+          schema: trainingRecord,
+        },
+        403: error('Not a clinician.'),
+      },
+    },
+    async ({ req, res }) => {
+      res.json(await trainingRecordOf(deps.dataSource.manager, currentAuth(req)));
     },
   );
 

@@ -192,6 +192,21 @@ export async function listVisitViews(
   return rows.map(toView);
 }
 
+/** Visits on which the person is a trainee (has a case or a sign-off), newest first. */
+export async function listTraineeVisitViews(
+  m: EntityManager,
+  traineeUserId: number,
+): Promise<VisitView[]> {
+  const rows: Record<string, unknown>[] = await m.query(
+    `SELECT ${viewColumns} FROM visits v ${viewJoins}
+      WHERE v.id IN (SELECT c.visit_id FROM visit_cases c WHERE c.trainee_user_id = ?)
+         OR v.id IN (SELECT so.visit_id FROM visit_sign_offs so WHERE so.trainee_user_id = ?)
+      ORDER BY v.visit_from DESC, v.id DESC LIMIT 200`,
+    [traineeUserId, traineeUserId],
+  );
+  return rows.map(toView);
+}
+
 /** Sets fields of a visit. */
 export async function updateVisit(
   m: EntityManager,
