@@ -40,7 +40,7 @@ const roleCases: RoleCase[] = [
     email: 'clinician@velmora.example',
     name: 'Rafael Oyelaran',
     context: 'Velmora Health · Hospital network · Clinician',
-    navigation: ['Home', 'Loans', 'Proctoring', 'Schedule', 'Case log'],
+    navigation: ['Home', 'Loans', 'Proctoring', 'My training', 'Schedule', 'Case log'],
     cards: ['Arrivals and visits', 'Case log'],
   },
   {

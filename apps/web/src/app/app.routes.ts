@@ -128,6 +128,12 @@ export const routes: Routes = [
         loadChildren: () => import('./features/visits/visits.routes').then((m) => m.visitsRoutes),
       },
       {
+        path: 'training',
+        canActivate: [roleGuard('clinician')],
+        loadChildren: () =>
+          import('./features/training/training.routes').then((m) => m.trainingRoutes),
+      },
+      {
         path: 'proctor',
         canActivate: [roleGuard('proctor')],
         loadChildren: () =>

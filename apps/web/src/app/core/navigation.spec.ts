@@ -6,7 +6,14 @@ const labels = (roles: Parameters<typeof navigationFor>[0]) =>
 describe('navigationFor', () => {
   it('gives each role its own pages, Home first and Members for managing roles', () => {
     expect(labels(['buyer'])).toEqual(['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members']);
-    expect(labels(['clinician'])).toEqual(['Home', 'Loans', 'Proctoring', 'Schedule', 'Case log']);
+    expect(labels(['clinician'])).toEqual([
+      'Home',
+      'Loans',
+      'Proctoring',
+      'My training',
+      'Schedule',
+      'Case log',
+    ]);
     expect(labels(['proctor'])).toEqual(['Home', 'Visit offers', 'Credentials']);
     expect(labels(['coordinator'])).toEqual(['Home', 'Shipments', 'Units']);
     expect(labels(['fleet_manager'])).toEqual([
@@ -32,6 +39,7 @@ describe('navigationFor', () => {
       'Find equipment',
       'Loans',
       'Proctoring',
+      'My training',
       'Schedule',
       'Case log',
       'Members',

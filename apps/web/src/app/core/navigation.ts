@@ -77,6 +77,14 @@ export const builtDestinations: readonly Destination[] = [
       'Ask for an experienced proctor for your surgeons’ first cases, see who was asked and who accepted, and the cases they signed off.',
   },
   {
+    path: 'training',
+    label: 'My training',
+    icon: 'school',
+    roles: ['clinician'],
+    summary:
+      'See your cases on proctored visits, your count towards your hospital’s sign-off threshold and your sign-off records.',
+  },
+  {
     path: 'proctor',
     label: 'Visit offers',
     icon: 'mark_email_unread',
@@ -167,6 +175,7 @@ const navigationOrder: readonly string[] = [
   'equipment',
   'loans',
   'visits',
+  'training',
   'schedule',
   'case-log',
   'proctor',
