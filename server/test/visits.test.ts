@@ -974,6 +974,147 @@ describe('a clinician’s training record', () => {
   });
 });
 
+describe('visit settings', () => {
+  it('a lender sets a model’s minimum supervised cases; matching uses it; bad values are refused', async () => {
+    const lender = await makeLender(t.dataSource, places.eastDepot);
+    const other = await makeLender(t.dataSource, places.eastDepot);
+    const hospital = await makeHospital(t.dataSource, places.bostonCampus);
+    await setSubdivision(t.dataSource, hospital.campusId, 'US-MA');
+    const modelId = await makeModel(t.dataSource, lender.id);
+    const p = await makeProctor(t.dataSource, { experience: { [modelId]: 15 } });
+    const fleet = await sign(lender.fleet);
+    const buyer = await sign(hospital.buyer);
+    const from = mondayAfter(65);
+    const candidate = async () => {
+      const res = await buyer.agent
+        .get('/api/visits/candidates')
+        .query({ siteId: hospital.campusId, modelId, from, to: addCalendarDays(from, 1) })
+        .expect(200);
+      return (
+        res.body.items as { proctorId: number; eligible: boolean; exclusions: string[] }[]
+      ).find((c) => c.proctorId === p.userId)!;
+    };
+    // Default 20 (product assumption, reference-values.md): 15 cases are not enough.
+    const before = await candidate();
+    expect(before.eligible).toBe(false);
+    expect(before.exclusions.join(' ')).toMatch(/20/);
+    const settings = await fleet.agent.get(`/api/visits/settings/lenders/${lender.id}`).expect(200);
+    expect(settings.body.lenderDefault).toBe(20);
+    expect(settings.body.models).toEqual([
+      expect.objectContaining({ modelId, minSupervisedCases: null, effective: 20 }),
+    ]);
+
+    const put = (client: Client, path: string, body: object) =>
+      client.agent.put(path).set('X-XSRF-TOKEN', client.csrf).send(body);
+    const path = `/api/visits/settings/models/${modelId}`;
+    for (const bad of [10.5, -1, 501, 'ten']) {
+      const res = await put(fleet, path, { minSupervisedCases: bad });
+      expect([bad, res.status]).toEqual([bad, 422]);
+      expect(res.body.error.details.fieldErrors.minSupervisedCases[0]).toMatch(
+        /whole number|from 0 to 500/,
+      );
+    }
+    expect(await countRows(t.dataSource, 'visit_model_settings', 'model_id = ?', [modelId])).toBe(
+      0,
+    );
+    // Another lender's fleet manager: 403 before the body is read; unknown model 404.
+    expect((await put(await sign(other.fleet), path, { minSupervisedCases: 'x' })).status).toBe(
+      403,
+    );
+    expect(
+      (await put(fleet, '/api/visits/settings/models/999999999', { minSupervisedCases: 5 })).status,
+    ).toBe(404);
+    expect((await put(buyer, path, { minSupervisedCases: 5 })).status).toBe(403);
+
+    const ok = await put(fleet, path, { minSupervisedCases: 10 });
+    expect(ok.status).toBe(200);
+    expect(ok.body.models[0]).toMatchObject({ minSupervisedCases: 10, effective: 10 });
+    expect((await candidate()).eligible).toBe(true);
+    const [audit] = await t.dataSource.query(
+      'SELECT organisation_id, detail FROM audit_events WHERE action = ? AND subject = ?',
+      ['visit_settings.min_supervised_cases', `model:${modelId}`],
+    );
+    expect(Number(audit.organisation_id)).toBe(lender.id);
+    expect(jsonColumn(audit.detail)).toMatchObject({ from: null, to: 10 });
+
+    // Null returns the model to the lender's default.
+    const reset = await put(fleet, path, { minSupervisedCases: null });
+    expect(reset.body.models[0]).toMatchObject({ minSupervisedCases: null, effective: 20 });
+    expect((await candidate()).eligible).toBe(false);
+  });
+
+  it('a hospital sets its sign-off threshold (1–10); the next sign-off uses it', async () => {
+    const w = await world(47);
+    const other = await makeHospital(t.dataSource);
+    const put = (client: Client, body: object, id = w.hospital.id) =>
+      client.agent
+        .put(`/api/visits/settings/hospitals/${id}`)
+        .set('X-XSRF-TOKEN', client.csrf)
+        .send(body);
+    const got = await w.buyer.agent
+      .get(`/api/visits/settings/hospitals/${w.hospital.id}`)
+      .expect(200);
+    // Default 3 (policy default; survey mean 3.24 ± 1.69, range 1–10, reference-values.md).
+    expect(got.body.signOffThreshold).toBe(3);
+    for (const bad of [0, 11, 2.5]) {
+      const res = await put(w.buyer, { signOffThreshold: bad });
+      expect([bad, res.status]).toEqual([bad, 422]);
+      expect(res.body.error.details.fieldErrors.signOffThreshold[0]).toMatch(
+        /whole number|from 1 to 10/,
+      );
+    }
+    expect((await put(await sign(other.buyer), { signOffThreshold: 2 })).status).toBe(403);
+    expect((await put(await sign(w.hospital.clinician), { signOffThreshold: 2 })).status).toBe(403);
+    const [unchanged] = await t.dataSource.query(
+      'SELECT sign_off_threshold AS n FROM organisations WHERE id = ?',
+      [w.hospital.id],
+    );
+    expect(Number(unchanged.n)).toBe(3);
+
+    const ok = await put(w.buyer, { signOffThreshold: 2 });
+    expect(ok.status).toBe(200);
+    expect(ok.body.signOffThreshold).toBe(2);
+    const audits = await t.dataSource.query(
+      'SELECT detail FROM audit_events WHERE action = ? AND organisation_id = ?',
+      ['visit_settings.sign_off_threshold', w.hospital.id],
+    );
+    expect(audits.map((a: { detail: unknown }) => jsonColumn(a.detail))).toEqual([
+      { from: 3, to: 2 },
+    ]);
+
+    // Two cases performed under supervision now suffice for a sign-off.
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [p.userId] }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    await post(await sign(p), `/api/visits/${id}/accept`).expect(200);
+    clockAt = bostonMorning(w.from);
+    const proctor = await signOnTheDay(p);
+    for (const caseNumber of [1, 2]) {
+      await post(proctor, `/api/visits/${id}/cases`, {
+        caseNumber,
+        traineeUserId: w.hospital.clinician.userId,
+        traineeRole: 'performed_supervised',
+        ratings: {
+          setup: 4,
+          docking: 4,
+          instrument_handling: 4,
+          troubleshooting: 4,
+          team_communication: 4,
+        },
+      }).expect(201);
+    }
+    const signed = await post(proctor, `/api/visits/${id}/sign-offs`, {
+      traineeUserId: w.hospital.clinician.userId,
+    });
+    expect(signed.status).toBe(201);
+    expect(signed.body.visit.signOffs[0]).toMatchObject({ proctoredCases: 2, threshold: 2 });
+  });
+});
+
 describe('credential warnings', () => {
   it('warns once, 60 days ahead, by e-mail and in-app; the profile shows the credential as expiring', async () => {
     const soon = addCalendarDays(new Date().toISOString().slice(0, 10), 30);

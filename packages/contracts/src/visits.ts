@@ -473,3 +473,58 @@ export const trainingRecord = z
   })
   .meta({ id: 'TrainingRecord' });
 export type TrainingRecord = z.infer<typeof trainingRecord>;
+
+/** Range a lender may set for the minimum supervised cases on a model (product choice). */
+export const minSupervisedCasesRange = { min: 0, max: 500 } as const;
+/**
+ * Range of a hospital's sign-off threshold: the 42 policies in the published survey asked for
+ * 1 to 10 proctored cases (reference-values.md).
+ */
+export const signOffThresholdRange = { min: 1, max: 10 } as const;
+
+const wholeIn = (range: { min: number; max: number }, what: string) =>
+  z
+    .number({ error: `Enter ${what} as a whole number.` })
+    .int(`Enter ${what} as a whole number.`)
+    .min(range.min, `Enter ${what} from ${range.min} to ${range.max}.`)
+    .max(range.max, `Enter ${what} from ${range.min} to ${range.max}.`);
+
+/** `GET /api/visits/settings/lenders/:lenderId`. */
+export const lenderVisitSettings = z
+  .object({
+    lenderId: z.number().int(),
+    /** The lender's default (20 unless changed), used by models without their own. */
+    lenderDefault: z.number().int(),
+    models: z.array(
+      z.object({
+        modelId: z.number().int(),
+        name: z.string(),
+        /** The model's own minimum, or null when the lender's default applies. */
+        minSupervisedCases: z.number().int().nullable(),
+        /** What matching uses. */
+        effective: z.number().int(),
+      }),
+    ),
+  })
+  .meta({ id: 'LenderVisitSettings' });
+export type LenderVisitSettings = z.infer<typeof lenderVisitSettings>;
+
+/** `PUT /api/visits/settings/models/:modelId`: null returns the model to the lender's default. */
+export const modelMinimumRequest = z
+  .object({
+    minSupervisedCases: wholeIn(minSupervisedCasesRange, 'the minimum supervised cases').nullable(),
+  })
+  .meta({ id: 'ModelMinimumRequest' });
+
+/** `GET/PUT /api/visits/settings/hospitals/:hospitalId`. */
+export const hospitalVisitSettings = z
+  .object({
+    hospitalId: z.number().int(),
+    name: z.string(),
+    signOffThreshold: z.number().int(),
+  })
+  .meta({ id: 'HospitalVisitSettings' });
+export type HospitalVisitSettings = z.infer<typeof hospitalVisitSettings>;
+export const signOffThresholdRequest = z
+  .object({ signOffThreshold: wholeIn(signOffThresholdRange, 'the sign-off threshold') })
+  .meta({ id: 'SignOffThresholdRequest' });

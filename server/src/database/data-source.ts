@@ -37,6 +37,7 @@ export const appTables = [
   'shipment_items',
   'shipments',
   'shipment_settings',
+  'visit_model_settings',
   'visit_sign_offs',
   'visit_cases',
   'visit_events',

@@ -12,10 +12,12 @@ import type { Config } from '../config';
 import type { Logger } from '../logger';
 import { defaultVisitSettings, type VisitDeps, type VisitSettings } from './domain/deps';
 import { noVisitNotifications, type NotifyVisitEvent } from './domain/notifications';
+import { VisitModelSettings1765324800000 } from '../database/migrations/1765324800000-visit-model-settings';
 import {
   VisitCaseEntity,
   VisitEntity,
   VisitEventEntity,
+  VisitModelSettingEntity,
   VisitOfferEntity,
   VisitSignOffEntity,
 } from './data-access/entities';
@@ -39,6 +41,7 @@ export const visitEntities = [
   VisitEventEntity,
   VisitCaseEntity,
   VisitSignOffEntity,
+  VisitModelSettingEntity,
 ];
 
 /** Visit settings from the server configuration (`EVALON_VISIT_OFFER_HOURS`, `EVALON_VISIT_TRAVEL_DAY_KM`). */
@@ -80,6 +83,7 @@ export { completeVisit, recordCase, signOffTrainee } from './domain/records';
 export const visitsComponent: AppComponent = {
   name: 'visits',
   entities: visitEntities,
+  migrations: [VisitModelSettings1765324800000],
   routers: (ctx) => [
     visitRoutes(
       createVisitDeps({

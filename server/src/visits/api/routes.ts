@@ -15,6 +15,10 @@ import {
   visitQuery,
   visitResponse,
   withdrawVisitRequest,
+  lenderVisitSettings,
+  modelMinimumRequest,
+  hospitalVisitSettings,
+  signOffThresholdRequest,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
@@ -30,6 +34,14 @@ import {
 } from '../domain/offers';
 import { getVisit, listVisits } from '../domain/queries';
 import { trainingRecordOf } from '../domain/training';
+import {
+  checkHospitalManager,
+  checkModelManager,
+  hospitalSettings,
+  lenderSettings,
+  setHospitalSignOffThreshold,
+  setModelMinimumSupervisedCases,
+} from '../domain/settings';
 import { completeVisit, readSignOffPdf, recordCase, signOffTrainee } from '../domain/records';
 
 const error = (description: string) => ({ description, schema: errorBody });
@@ -62,6 +74,106 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
     },
     async ({ req, res, query }) => {
       res.json({ items: await listCandidates(deps, currentAuth(req), query) });
+    },
+  );
+
+  const settingsErrors = {
+    403: error('You do not manage this organisation.'),
+    404: error('No such lender, hospital or model.'),
+  };
+
+  api.route(
+    {
+      method: 'get',
+      path: '/settings/lenders/:lenderId',
+      summary: 'A lender’s models with the minimum supervised cases a proctor needs on each',
+      access: { roles: ['fleet_manager', 'admin'] },
+      params: z.object({ lenderId: id }),
+      responses: {
+        200: { description: 'The settings.', schema: lenderVisitSettings },
+        ...settingsErrors,
+      },
+    },
+    async ({ req, res, params }) => {
+      res.json(await lenderSettings(deps, currentAuth(req), params.lenderId));
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/settings/models/:modelId',
+      summary: 'Set a model’s minimum supervised cases (0–500; null: the lender’s default)',
+      description: 'Used by matching for every new candidate list and offer. Audited.',
+      access: { roles: ['fleet_manager', 'admin'] },
+      params: z.object({ modelId: id }),
+      scope: (req, params) => checkModelManager(deps, currentAuth(req), params.modelId),
+      body: modelMinimumRequest,
+      responses: {
+        200: {
+          description: 'The lender’s settings after the change.',
+          schema: lenderVisitSettings,
+        },
+        ...settingsErrors,
+        422: error('Not a whole number from 0 to 500.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json(
+        await setModelMinimumSupervisedCases(
+          deps,
+          currentAuth(req),
+          params.modelId,
+          body.minSupervisedCases,
+        ),
+      );
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/settings/hospitals/:hospitalId',
+      summary: 'A hospital’s sign-off threshold',
+      access: { roles: ['buyer', 'admin'] },
+      params: z.object({ hospitalId: id }),
+      responses: {
+        200: { description: 'The settings.', schema: hospitalVisitSettings },
+        ...settingsErrors,
+      },
+    },
+    async ({ req, res, params }) => {
+      res.json(await hospitalSettings(deps, currentAuth(req), params.hospitalId));
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/settings/hospitals/:hospitalId',
+      summary: 'Set the hospital’s sign-off threshold (1–10 cases performed under supervision)',
+      description:
+        'Used for every later sign-off; sign-offs already given keep theirs. Audited. The range ' +
+        'follows a published survey of 42 hospital policies (1–10 proctored cases, mean 3.24).',
+      access: { roles: ['buyer', 'admin'] },
+      params: z.object({ hospitalId: id }),
+      scope: (req, params) => checkHospitalManager(deps, currentAuth(req), params.hospitalId),
+      body: signOffThresholdRequest,
+      responses: {
+        200: { description: 'The settings after the change.', schema: hospitalVisitSettings },
+        ...settingsErrors,
+        422: error('Not a whole number from 1 to 10.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json(
+        await setHospitalSignOffThreshold(
+          deps,
+          currentAuth(req),
+          params.hospitalId,
+          body.signOffThreshold,
+        ),
+      );
     },
   );
 
