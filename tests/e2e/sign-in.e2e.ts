@@ -33,7 +33,7 @@ const roleCases: RoleCase[] = [
     email: 'buyer@velmora.example',
     name: 'Dana Whitcombe',
     context: 'Velmora Health · Hospital network · Hospital buyer',
-    navigation: ['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members'],
+    navigation: ['Home', 'Find equipment', 'Loans', 'Proctoring', 'Visit settings', 'Members'],
     cards: ['Evaluation loans', 'Proctoring visits', 'Members'],
   },
   {
@@ -47,14 +47,22 @@ const roleCases: RoleCase[] = [
     email: 'buyer@orlenbach.example',
     name: 'Friederike Albrecht-Sommer',
     context: 'Klinikum Orlenbach · Hospital network · Hospital buyer',
-    navigation: ['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members'],
+    navigation: ['Home', 'Find equipment', 'Loans', 'Proctoring', 'Visit settings', 'Members'],
     cards: ['Evaluation loans', 'Proctoring visits', 'Members'],
   },
   {
     email: 'fleet@quorvel.example',
     name: 'Marcus Tennant-Hale',
     context: 'Quorvel Surgical · Lender · Fleet manager',
-    navigation: ['Home', 'Catalog', 'Approvals', 'Credit agreements', 'Units', 'Members'],
+    navigation: [
+      'Home',
+      'Catalog',
+      'Approvals',
+      'Credit agreements',
+      'Units',
+      'Visit settings',
+      'Members',
+    ],
     cards: ['Loan requests', 'Catalog', 'Members'],
   },
   {

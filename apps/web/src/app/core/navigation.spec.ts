@@ -5,7 +5,14 @@ const labels = (roles: Parameters<typeof navigationFor>[0]) =>
 
 describe('navigationFor', () => {
   it('gives each role its own pages, Home first and Members for managing roles', () => {
-    expect(labels(['buyer'])).toEqual(['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members']);
+    expect(labels(['buyer'])).toEqual([
+      'Home',
+      'Find equipment',
+      'Loans',
+      'Proctoring',
+      'Visit settings',
+      'Members',
+    ]);
     expect(labels(['clinician'])).toEqual([
       'Home',
       'Loans',
@@ -22,6 +29,7 @@ describe('navigationFor', () => {
       'Approvals',
       'Credit agreements',
       'Units',
+      'Visit settings',
       'Members',
     ]);
     expect(labels(['admin'])).toEqual([
@@ -42,6 +50,7 @@ describe('navigationFor', () => {
       'My training',
       'Schedule',
       'Case log',
+      'Visit settings',
       'Members',
     ]);
   });

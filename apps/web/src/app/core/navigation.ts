@@ -85,6 +85,15 @@ export const builtDestinations: readonly Destination[] = [
       'See your cases on proctored visits, your count towards your hospital’s sign-off threshold and your sign-off records.',
   },
   {
+    path: 'visit-settings',
+    label: 'Visit settings',
+    icon: 'tune',
+    // Lenders set the minimum supervised cases per model; hospitals the sign-off threshold.
+    roles: ['fleet_manager', 'buyer'],
+    summary:
+      'Set the supervised cases a proctor needs on each of your models, or how many cases your trainees perform under supervision before a sign-off.',
+  },
+  {
     path: 'proctor',
     label: 'Visit offers',
     icon: 'mark_email_unread',
@@ -185,6 +194,7 @@ const navigationOrder: readonly string[] = [
   'approvals',
   'credit-agreements',
   'units',
+  'visit-settings',
   'organisations',
   'audit',
   'outbox',
