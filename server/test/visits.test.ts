@@ -182,6 +182,58 @@ describe('proctor profile, credentials and availability', () => {
     }
   });
 
+  it('availability exceptions: days out, one-off extra days, blackouts; contradictions are named', async () => {
+    const p = await makeProctor(t.dataSource);
+    const client = await sign(p);
+    const put = (body: object) =>
+      client.agent.put('/api/proctors/me/availability').set('X-XSRF-TOKEN', client.csrf).send(body);
+    const rule = 'DTSTART;TZID=America/New_York:20260105T080000\nRRULE:FREQ=WEEKLY;BYDAY=MO,WE,FR';
+    // Days two to three weeks ahead (preview days are in the proctor's zone; whole days apart).
+    const today = (await client.agent.get('/api/proctors/me/availability/preview').expect(200)).body
+      .days[0].date as string;
+    const next = (weekday: number, after: number) => {
+      let d = addCalendarDays(today, after);
+      while (new Date(`${d}T12:00:00Z`).getUTCDay() !== weekday) d = addCalendarDays(d, 1);
+      return d;
+    };
+    const saturday = next(6, 14);
+    const monday = next(1, 14);
+    const friday = next(5, 21);
+
+    const contradictions = await put({
+      rules: [rule],
+      exceptions: [
+        { kind: 'extra', date: saturday },
+        { kind: 'date', date: saturday },
+        { kind: 'extra', date: friday },
+      ],
+      blackouts: [{ from: friday, to: friday }],
+    });
+    expect(contradictions.status).toBe(422);
+    expect(contradictions.body.error.details.fieldErrors).toEqual({
+      'exceptions.1.date': [`${saturday} is both taken out and added; keep one of the two.`],
+      'exceptions.2.date': [
+        `${friday} falls in blackout 1 (${friday} to ${friday}); remove one of them.`,
+      ],
+    });
+
+    await put({
+      rules: [rule],
+      exceptions: [
+        { kind: 'extra', date: saturday },
+        { kind: 'date', date: monday },
+      ],
+      blackouts: [{ from: friday, to: friday }],
+    }).expect(200);
+    const days = (await client.agent.get('/api/proctors/me/availability/preview').expect(200)).body
+      .days as { date: string; available: boolean; why: string | null }[];
+    const on = (date: string) => days.find((d) => d.date === date)!;
+    expect(on(saturday)).toMatchObject({ available: true });
+    expect(on(monday)).toMatchObject({ available: false, why: 'exception' });
+    expect(on(friday)).toMatchObject({ available: false, why: 'blackout' });
+    expect(on(addCalendarDays(saturday, 7))).toMatchObject({ available: false });
+  });
+
   it('credentials: a PDF is stored and downloadable by its owner only; other files are refused', async () => {
     const p = await makeProctor(t.dataSource);
     const other = await makeProctor(t.dataSource);

@@ -45,7 +45,10 @@ export const availabilitySettings = z
     exceptions: z
       .array(
         z.discriminatedUnion('kind', [
+          /** A day taken out of the pattern. */
           z.object({ kind: z.literal('date'), date: isoDate }),
+          /** A one-off extra day of availability (like an RFC 5545 RDATE). */
+          z.object({ kind: z.literal('extra'), date: isoDate }),
           z.object({ kind: z.literal('rule'), rule: z.string().trim().min(1).max(500) }),
         ]),
       )
@@ -57,6 +60,38 @@ export const availabilitySettings = z
           .refine((r) => r.to >= r.from, { message: 'The end is before the start.', path: ['to'] }),
       )
       .max(200),
+  })
+  .superRefine((a, ctx) => {
+    // Contradictions a person should resolve rather than have one silently win.
+    const seen = new Map<string, 'date' | 'extra'>();
+    a.exceptions.forEach((e, i) => {
+      if (e.kind === 'rule') return;
+      const before = seen.get(e.date);
+      if (before === e.kind) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['exceptions', i, 'date'],
+          message: `${e.date} is already in the list.`,
+        });
+      } else if (before) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['exceptions', i, 'date'],
+          message: `${e.date} is both taken out and added; keep one of the two.`,
+        });
+      }
+      seen.set(e.date, e.kind);
+      if (e.kind === 'extra') {
+        const b = a.blackouts.findIndex((x) => x.from <= e.date && e.date <= x.to);
+        if (b >= 0) {
+          ctx.addIssue({
+            code: 'custom',
+            path: ['exceptions', i, 'date'],
+            message: `${e.date} falls in blackout ${b + 1} (${a.blackouts[b]!.from} to ${a.blackouts[b]!.to}); remove one of them.`,
+          });
+        }
+      }
+    });
   })
   .meta({ id: 'AvailabilitySettings' });
 export type AvailabilitySettings = z.infer<typeof availabilitySettings>;
