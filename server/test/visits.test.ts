@@ -232,6 +232,21 @@ describe('proctor profile, credentials and availability', () => {
     expect(on(monday)).toMatchObject({ available: false, why: 'exception' });
     expect(on(friday)).toMatchObject({ available: false, why: 'blackout' });
     expect(on(addCalendarDays(saturday, 7))).toMatchObject({ available: false });
+
+    // One calendar month for the proctor's calendar: February 2028 has 29 days (a leap year,
+    // Gregorian rule: divisible by 4 and not a century); a bad month is named.
+    const feb = await client.agent
+      .get('/api/proctors/me/availability/preview?month=2028-02')
+      .expect(200);
+    expect(feb.body.days.map((d: { date: string }) => d.date)).toEqual(
+      Array.from({ length: 29 }, (_, i) => `2028-02-${String(i + 1).padStart(2, '0')}`),
+    );
+    // 2 February 2028 is a Wednesday (derived): in the pattern.
+    expect(feb.body.days[1]).toMatchObject({ date: '2028-02-02', available: true });
+    const badMonth = await client.agent.get('/api/proctors/me/availability/preview?month=2028-13');
+    // A bad address (query) answers 400, as for every route; the message says the format.
+    expect(badMonth.status).toBe(400);
+    expect(JSON.stringify(badMonth.body.error)).toContain('YYYY-MM');
   });
 
   it('credentials: a PDF is stored and downloadable by its owner only; other files are refused', async () => {

@@ -76,7 +76,7 @@ const roleCases: RoleCase[] = [
     email: 'proctor@proctors.example',
     name: 'Helena Osterby',
     context: 'Osterby Proctoring Practice · Proctor practice · Proctor',
-    navigation: ['Home', 'Visit offers', 'Credentials'],
+    navigation: ['Home', 'Visit offers', 'Credentials', 'Calendar'],
     cards: ['Visit offers', 'Credentials'],
   },
 ];

@@ -21,7 +21,7 @@ describe('navigationFor', () => {
       'Schedule',
       'Case log',
     ]);
-    expect(labels(['proctor'])).toEqual(['Home', 'Visit offers', 'Credentials']);
+    expect(labels(['proctor'])).toEqual(['Home', 'Visit offers', 'Credentials', 'Calendar']);
     expect(labels(['coordinator'])).toEqual(['Home', 'Shipments', 'Units']);
     expect(labels(['fleet_manager'])).toEqual([
       'Home',

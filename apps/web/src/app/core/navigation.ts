@@ -110,6 +110,14 @@ export const builtDestinations: readonly Destination[] = [
       'Keep your licences, credentials and availability current so hospitals can ask you for the right visits.',
   },
   {
+    path: 'proctor/calendar',
+    label: 'Calendar',
+    icon: 'calendar_month',
+    roles: ['proctor'],
+    summary:
+      'See your accepted visits month by month, with their travel days and your availability.',
+  },
+  {
     path: 'shipments',
     label: 'Shipments',
     icon: 'local_shipping',
@@ -189,6 +197,7 @@ const navigationOrder: readonly string[] = [
   'case-log',
   'proctor',
   'proctor/credentials',
+  'proctor/calendar',
   'shipments',
   'catalog',
   'approvals',
