@@ -182,10 +182,7 @@ export async function loadDemoProctoring(
     // Each step happens at its own plausible instant, all before `now`, so the visit page's
     // timeline reads like a real one: a past visit was asked for two weeks before its first day,
     // a coming one two to four days ago; answers follow hours later, cases on the visit days.
-    let at =
-      v.startInDays < 0
-        ? new Date(now.getTime() + (v.startInDays - 14) * 86_400_000)
-        : new Date(now.getTime() - (2 + (index % 3)) * 86_400_000 - (index % 4) * hour);
+    let at = now;
     const later = (hours: number) => {
       at = new Date(at.getTime() + hours * hour);
     };
@@ -204,6 +201,15 @@ export async function loadDemoProctoring(
     // A Tuesday on or after the start; a week later when a biweekly pattern is off that week.
     let from = addCalendarDays(today, v.startInDays);
     while (isoWeekday(from) !== 2) from = addCalendarDays(from, 1);
+    // Asked at 09:40 campus time: two weeks before a past visit, two to four days ago for a
+    // coming one.
+    const askedOn = addCalendarDays(
+      v.startInDays < 0 ? from : today,
+      v.startInDays < 0 ? -14 : -(2 + (index % 3)),
+    );
+    at = new Date(wallTimeToInstant(askedOn, '09:40', campusZone));
+    // A visit still waiting for an answer was asked this morning, so its offer is still open.
+    if (v.outcome === 'offered') at = new Date(now.getTime() - 5 * hour);
     let created: { id: number } | null = null;
     for (let attempt = 0; attempt < 3 && !created; attempt++) {
       try {
@@ -225,13 +231,13 @@ export async function loadDemoProctoring(
     }
     const id = created!.id;
     for (const d of v.declines ?? []) {
-      later(5 + (index % 3));
+      later(2 + (index % 2));
       await declineOffer(deps, await authOf(ds, d.proctor), id, d.reason);
     }
     const accepting = v.proctors.find((e) => !(v.declines ?? []).some((d) => d.proctor === e));
     if (['accepted', 'completed', 'signed_off'].includes(v.outcome) && accepting) {
       const proctor = await authOf(ds, accepting);
-      later(3 + (index % 4));
+      later(1 + (index % 3));
       await acceptOffer(deps, proctor, id);
       if (v.trainee) {
         const trainee = (await idOf(ds, 'SELECT id FROM users WHERE email = ?', v.trainee))!;

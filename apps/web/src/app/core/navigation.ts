@@ -230,13 +230,16 @@ export function hasAnyRole(held: readonly Role[], wanted: readonly Role[]): bool
  */
 export function navigationFor(roles: readonly Role[], organisationId: number | null): NavEntry[] {
   const entries: NavEntry[] = [{ label: 'Home', icon: 'home', link: '/', exact: true }];
-  for (const destination of destinationsInOrder()) {
+  const all = destinationsInOrder();
+  for (const destination of all) {
     if (hasAnyRole(roles, destination.roles)) {
       entries.push({
         label: destination.label,
         icon: destination.icon,
         link: `/${destination.path}`,
-        exact: false,
+        // A page with pages of its own in the navigation (Visit offers under /proctor) is
+        // active only on its own address, so one link is highlighted at a time.
+        exact: all.some((other) => other.path.startsWith(`${destination.path}/`)),
       });
     }
   }

@@ -93,11 +93,7 @@ const whyWords: Partial<Record<string, string>> = {
           >
             <mat-icon>delete</mat-icon>
           </button>
-          @if (
-            fieldErrors()['exceptions.' + i + '.date'] ??
-              fieldErrors()['exceptions.' + i + '.rule'];
-            as e
-          ) {
+          @if (exceptionError(i); as e) {
             <p class="error">{{ e }}</p>
           }
         </div>
@@ -350,6 +346,11 @@ export class ProctorAvailability {
   }
   protected addBlackout(): void {
     this.blackouts.update((b) => [...b, { from: '', to: '' }]);
+  }
+  /** The server's (or the form's) message for exception `i`, if any. */
+  protected exceptionError(i: number): string | null {
+    const errors: Readonly<Record<string, string | undefined>> = this.fieldErrors();
+    return errors[`exceptions.${i}.date`] ?? errors[`exceptions.${i}.rule`] ?? null;
   }
   protected setException(i: number, value: string): void {
     this.exceptions.update((list) =>

@@ -81,6 +81,11 @@ export class TrainingRecordPage {
     this.load();
   }
 
+  /** A rating out of 5, or a dash when the competency was not rated. */
+  protected rating(ratings: Readonly<Record<string, number | undefined>>, key: string): string {
+    return String(ratings[key] ?? '—');
+  }
+
   protected when(at: string): string {
     return formatInstant(at, this.session.timeZone(), this.locale);
   }
