@@ -30,7 +30,7 @@ export interface NumericSummary {
 }
 
 /** Name of the quantile definition, for tables and reports. */
-export const quantileMethod = 'Hyndman & Fan type 7 (linear interpolation)';
+export const quantileMethod = 'Hyndman & Fan type 7, linear interpolation';
 
 /**
  * Median, quartiles, mean ± SD, min and max of the finite values; `null` when there are none.
