@@ -24,7 +24,16 @@ export const procedureFamilies = {
   laser: ['ureteroscopic_lithotripsy', 'percutaneous_lithotripsy', 'prostate_enucleation', 'other'],
   imaging: ['fluoroscopy_guided', 'ultrasound_guided', 'endoscopic_imaging', 'other'],
   fluid_management: ['hysteroscopy', 'arthroscopy', 'ureteroscopy', 'other'],
-  accessory: ['other'],
+  // Instruments and other accessories serve the platforms above: the common families of each.
+  accessory: [
+    'ureteroscopic_lithotripsy',
+    'ureteroscopy',
+    'prostatectomy',
+    'partial_nephrectomy',
+    'hysterectomy',
+    'cystoscopy',
+    'other',
+  ],
 } as const;
 
 /** A catalog category that has procedure families. */

@@ -98,7 +98,7 @@ export class CaseDialog {
   private readonly ref = inject(MatDialogRef<CaseDialog, EvaluationCase>);
   private readonly api = inject(EvidenceApi);
 
-  protected readonly procedureLabels = procedureLabels;
+  protected readonly procedureLabels: Partial<Record<string, string>> = procedureLabels;
   protected readonly outcomes = caseOutcomes;
   protected readonly outcomeLabels = caseOutcomeLabels;
   protected readonly grades = complicationGrades;

@@ -78,13 +78,12 @@ export class LoanEvidence {
   protected readonly error = signal<string | null>(null);
   private readonly attempt = signal(0);
 
-  protected readonly procedureLabels = procedureLabels;
-  protected readonly outcomeLabels = caseOutcomeLabels as Record<string, string>;
+  protected readonly procedureLabels: Partial<Record<string, string>> = procedureLabels;
+  protected readonly outcomeLabels: Partial<Record<string, string>> = caseOutcomeLabels;
   protected readonly caseColumns = [
     'caseNumber',
     'day',
     'procedure',
-    'clinician',
     'setup',
     'operative',
     'energy',
