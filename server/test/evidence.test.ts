@@ -194,8 +194,18 @@ describe('case records', () => {
       recordedByUserId: w.proctor.userId,
     });
     const clinician = await sign(w.clinician);
+    const own = await send(clinician, 'post', path, caseBody(w, { caseNumber: 2 }));
+    expect(own.status).toBe(201);
+    // The proctor changes their visit's case but not the clinician's own.
+    await send(proctor, 'patch', `${path}/${res.body.case.id}`, { setupMinutes: 25 }).expect(200);
+    const notTheirs = await send(proctor, 'patch', `${path}/${own.body.case.id}`, {
+      setupMinutes: 1,
+    });
+    expect(notTheirs.status).toBe(403);
+    await send(proctor, 'delete', `${path}/${own.body.case.id}`).expect(403);
+    expect(await casesOf(w.loanId)).toBe(2);
     const list = await clinician.agent.get(path).expect(200);
-    expect(list.body.items.map((c: { proctored: boolean }) => c.proctored)).toEqual([true]);
+    expect(list.body.items.map((c: { proctored: boolean }) => c.proctored)).toEqual([true, false]);
     expect(list.body.options.visits.map((v: { visitId: number }) => v.visitId)).toEqual([
       w.visitId,
     ]);

@@ -192,6 +192,19 @@ async function assertNumberFree(
   }
 }
 
+/**
+ * A proctor who is not one of the hospital's clinicians changes and removes only the cases of
+ * their own visits; clinicians change any case of the loan (403 otherwise).
+ */
+function assertMayChange(access: EvidenceAccess, current: CaseView): void {
+  if (access.clinician) return;
+  if (access.proctorVisits.some((v) => v.id === current.visitId)) return;
+  throw AppError.forbidden(
+    'forbidden',
+    'A proctor changes only the cases of their own visits; the hospital’s clinicians change the rest.',
+  );
+}
+
 /** Fields as stored, from the input (only those present in a patch). */
 function toColumns(input: CasePatch): Partial<NewCase> {
   const out: Partial<NewCase> = {};
@@ -282,6 +295,7 @@ export async function changeCase(
     assertCanRecord(access);
     const [current] = await findCases(m, loanId, caseId, true);
     if (!current) throw AppError.notFound('case_not_found', 'There is no such case on this loan.');
+    assertMayChange(access, current);
     assertRecording(access.loan);
     // Energy time against operative time, when only one of them changes.
     const energy = patch.energyMinutes !== undefined ? patch.energyMinutes : current.energyMinutes;
@@ -330,6 +344,7 @@ export async function removeCase(
     assertCanRecord(access);
     const [current] = await findCases(m, loanId, caseId, true);
     if (!current) throw AppError.notFound('case_not_found', 'There is no such case on this loan.');
+    assertMayChange(access, current);
     assertRecording(access.loan);
     await deleteCase(m, caseId);
     await insertAuditEvent(m, {
