@@ -174,6 +174,27 @@ describe('LoanEvidence', () => {
     await settle();
   });
 
+  it('asks before removing a case and removes it only on confirmation', async () => {
+    await render([aCase({ id: 9, caseNumber: 4 })]);
+    const remove = () =>
+      loader.getHarness(MatButtonHarness.with({ selector: '[aria-label="Remove case 4"]' }));
+    await (await remove()).click();
+    expect(document.body.textContent).toContain('Remove case 4?');
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Cancel' }))).click();
+    await settle();
+    http.expectNone({ method: 'DELETE' });
+
+    await (await remove()).click();
+    await (await loader.getHarness(MatButtonHarness.with({ text: 'Remove' }))).click();
+    await settle();
+    http.expectOne({ method: 'DELETE', url: '/api/loans/3/cases/9' }).flush(null);
+    await settle();
+    http.expectOne('/api/loans/3/cases').flush(listOf([]));
+    http.expectOne('/api/loans/3/metrics').flush(metricsOf([]));
+    await settle();
+    expect(text()).toContain('No cases recorded yet');
+  });
+
   it('hides recording for people who only read', async () => {
     await render([aCase()], false);
     expect(text()).not.toContain('Record a case');
