@@ -28,6 +28,9 @@ describe('case record contract', () => {
   it.each([
     [{ setupMinutes: -1 }, 'setupMinutes'],
     [{ operativeMinutes: 0 }, 'operativeMinutes'],
+    // Below a tenth it would be stored as 0 (DECIMAL(6,1)).
+    [{ operativeMinutes: 0.04 }, 'operativeMinutes'],
+    [{ target: { lengthMm: 0.04, widthMm: 8, heightMm: 6 } }, 'target.lengthMm'],
     [{ energyMinutes: -2 }, 'energyMinutes'],
     [{ energyMinutes: 80 }, 'energyMinutes'],
     [{ target: { lengthMm: 0, widthMm: 8, heightMm: 6 } }, 'target.lengthMm'],

@@ -28,6 +28,7 @@ const deidentifiedText = (max: number) =>
       }
     });
 
+/** Minutes are stored to a tenth (the server rounds); a case lasts at most a day. */
 const minutes = (label: string, max: number) =>
   z
     .number({ error: `Enter the ${label} in minutes.` })
@@ -37,7 +38,8 @@ const minutes = (label: string, max: number) =>
 /** One diameter of the target, in millimetres: above 0, at most 100. */
 const diameter = z
   .number({ error: 'Enter the diameter in millimetres.' })
-  .gt(0, 'A diameter is more than 0 mm.')
+  // Stored to a tenth of a millimetre: anything below 0.1 would be stored as 0.
+  .min(0.1, 'A diameter is more than 0 mm: at least 0.1 mm.')
   .max(100, 'A diameter is at most 100 mm.');
 
 export const caseTarget = z.object({
@@ -64,7 +66,10 @@ const caseFields = z.object({
   /** Who performed the case; defaults to the clinician recording it (a proctor must say). */
   clinicianId: id.optional(),
   setupMinutes: minutes('set-up time', 600),
-  operativeMinutes: minutes('operative time', 1440).gt(0, 'The operative time is more than 0.'),
+  operativeMinutes: minutes('operative time', 1440).min(
+    0.1,
+    'The operative time is more than 0: at least 0.1 minutes.',
+  ),
   energyMinutes: minutes('energy-on time', 1440).nullish(),
   target: caseTarget.nullish(),
   outcome: caseOutcome.nullish(),
