@@ -49,7 +49,7 @@ async function fillCase(page: Page, c: { operative: number; energy: number; note
   await dialog.getByLabel('Note').fill(c.note);
 }
 
-test('a clinician records cases (one refused for a record number); the figures follow', async ({
+test('a clinician records cases (one refused for a record number) and answers the survey; the buyer decides', async ({
   page,
 }) => {
   test.setTimeout(180_000);
@@ -105,10 +105,41 @@ test('a clinician records cases (one refused for a record number); the figures f
   await section.getByRole('heading', { name: 'By clinician' }).scrollIntoViewIfNeeded();
   await shoot(page, 'evidence-figures.png');
 
-  // The buyer sees the same cases, without recording controls.
+  // The clinician answers the survey.
+  const survey = section.locator('ev-evaluation-survey');
+  const groups = survey.getByRole('radiogroup');
+  await expect(groups).toHaveCount(6);
+  for (let i = 0; i < 6; i++) {
+    await groups
+      .nth(i)
+      .getByRole('radio', { name: i === 3 ? /^3:/ : /^4:/ })
+      .check();
+  }
+  await survey.getByLabel('Comment').fill('Clear view; the sheath exchange took practice');
+  await survey.getByRole('button', { name: 'Send my answers' }).click();
+  await expect(page.getByText('Your answers are saved.', { exact: false })).toBeVisible();
+  await expect(section.getByText('1 clinician answered')).toBeVisible();
+
+  // The buyer sees the same cases, without recording controls, and records the decision.
   await page.context().clearCookies();
   await signIn(page, buyer.email, buyer.name);
   await page.goto(`/loans/${loanId}`);
   await expect(page.locator('ev-loan-evidence table.cases tr[mat-row]')).toHaveCount(4);
   await expect(page.getByRole('button', { name: 'Record a case' })).toHaveCount(0);
+  const decision = page.locator('ev-evaluation-decision');
+  await decision.getByRole('button', { name: 'Record the decision' }).click();
+  await expect(decision.getByText('Give at least one reason.')).toBeVisible();
+  await decision.getByRole('radio', { name: 'Buy' }).check();
+  await decision.getByRole('checkbox', { name: 'Clinical results in the evaluation' }).check();
+  await decision.getByRole('checkbox', { name: 'Fit with our workflow' }).check();
+  await decision.getByLabel('Note for the committee').fill('Recommend for the next capital round');
+  await decision.getByRole('button', { name: 'Record the decision' }).click();
+  await expect(page.getByText('Decision recorded: Buy.')).toBeVisible();
+  await expect(decision.getByText(/Recorded: Buy by Dana Whitcombe/)).toBeVisible();
+  await page.getByRole('button', { name: 'Dismiss' }).click();
+  await page
+    .locator('ev-loan-evidence')
+    .getByRole('heading', { name: 'Clinician survey' })
+    .scrollIntoViewIfNeeded();
+  await shoot(page, 'evidence-survey-decision.png');
 });

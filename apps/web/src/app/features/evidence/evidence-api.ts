@@ -4,7 +4,11 @@ import type {
   CaseInput,
   CaseList,
   CasePatch,
+  DecisionInput,
   EvaluationCase,
+  EvaluationDecision,
+  Feedback,
+  FeedbackInput,
   LoanMetricsResponse,
 } from '@evalon/contracts';
 import { Observable, map } from 'rxjs';
@@ -41,5 +45,19 @@ export class EvidenceApi {
   /** Removes a case. */
   remove(loanId: number, caseId: number): Observable<void> {
     return this.http.delete<void>(`/api/loans/${loanId}/cases/${caseId}`);
+  }
+
+  /** Records (or revises) the signed-in clinician's survey on the loan. */
+  feedback(loanId: number, body: FeedbackInput): Observable<Feedback> {
+    return this.http
+      .post<{ feedback: Feedback }>(`/api/loans/${loanId}/feedback`, body)
+      .pipe(map((r) => r.feedback));
+  }
+
+  /** Records (or revises) the hospital's decision. */
+  decide(loanId: number, body: DecisionInput): Observable<EvaluationDecision> {
+    return this.http
+      .post<{ decision: EvaluationDecision }>(`/api/loans/${loanId}/decision`, body)
+      .pipe(map((r) => r.decision));
   }
 }

@@ -97,6 +97,7 @@ describe('LoanEvidence', () => {
     fixture = TestBed.createComponent(LoanEvidence);
     fixture.componentRef.setInput('loanId', 3);
     fixture.componentRef.setInput('hospitalId', 7);
+    fixture.componentRef.setInput('loanState', 'delivered');
     loader = TestbedHarnessEnvironment.documentRootLoader(fixture);
     await fixture.whenStable();
     http.expectOne('/api/loans/3/cases').flush(listOf(items, canRecord));

@@ -15,7 +15,15 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import type { CaseList, EvaluationCase, LoanMetricsResponse } from '@evalon/contracts';
+import {
+  decisionLabels,
+  decisionReasonLabels,
+  feedbackItemLabels,
+  type CaseList,
+  type EvaluationCase,
+  type LoanMetricsResponse,
+  type LoanState,
+} from '@evalon/contracts';
 import { caseOutcomeLabels, procedureLabels } from '@evalon/evidence';
 import { catchError, forkJoin, of, switchMap, tap } from 'rxjs';
 import { messageOf } from '../../core/api-error';
@@ -25,6 +33,8 @@ import { Cautions } from '../../shared/cautions/cautions';
 import { ConfirmDialog, type ConfirmDialogData } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { CaseDialog, type CaseDialogData } from './case-dialog';
+import { EvaluationDecisionForm } from './evaluation-decision';
+import { EvaluationSurvey } from './evaluation-survey';
 import { EvidenceApi } from './evidence-api';
 import { meanSd, medianIqr, num } from './summary-text';
 
@@ -49,6 +59,8 @@ export function nextCaseNumber(cases: readonly Pick<EvaluationCase, 'caseNumber'
   imports: [
     Cautions,
     EmptyState,
+    EvaluationDecisionForm,
+    EvaluationSurvey,
     MatButtonModule,
     MatCardModule,
     MatIconModule,
@@ -71,6 +83,8 @@ export class LoanEvidence {
   readonly loanId = input.required<number>();
   /** The loan's hospital (whose clinicians may leave "performed by" as themselves). */
   readonly hospitalId = input.required<number>();
+  /** The loan's state: the survey runs while the evaluation does, the decision from delivery. */
+  readonly loanState = input.required<LoanState>();
 
   protected readonly list = signal<CaseList | null>(null);
   protected readonly metrics = signal<LoanMetricsResponse | null>(null);
@@ -110,6 +124,28 @@ export class LoanEvidence {
     ];
   });
   protected readonly complications = computed(() => this.metrics()?.complications ?? []);
+  protected readonly feedbackLabels = feedbackItemLabels;
+  protected readonly decisionLabels = decisionLabels;
+  protected readonly reasonLabels = decisionReasonLabels;
+  private readonly rolesHere = computed(
+    () =>
+      this.session
+        .user()
+        ?.memberships.filter((m) => m.organisationId === this.hospitalId())
+        .map((m) => m.role) ?? [],
+  );
+  /** Whether the person answers the survey: a clinician of the hospital, while cases are recorded. */
+  protected readonly canAnswerSurvey = computed(
+    () =>
+      this.rolesHere().includes('clinician') &&
+      ['delivered', 'returning', 'returned'].includes(this.loanState()),
+  );
+  /** Whether the person records the decision: a buyer of the hospital, once delivered. */
+  protected readonly canDecide = computed(
+    () =>
+      this.rolesHere().includes('buyer') &&
+      ['delivered', 'returning', 'returned', 'closed'].includes(this.loanState()),
+  );
 
   constructor() {
     toObservable(computed(() => ({ id: this.loanId(), attempt: this.attempt() })))
@@ -158,9 +194,7 @@ export class LoanEvidence {
   protected open(existing: EvaluationCase | null = null): void {
     const list = this.list();
     if (!list) return;
-    const isClinician = !!this.session
-      .user()
-      ?.memberships.some((m) => m.organisationId === this.hospitalId() && m.role === 'clinician');
+    const isClinician = this.rolesHere().includes('clinician');
     this.dialog
       .open<CaseDialog, CaseDialogData, EvaluationCase>(CaseDialog, {
         data: {
