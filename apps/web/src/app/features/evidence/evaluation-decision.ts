@@ -54,7 +54,7 @@ import { EvidenceApi } from './evidence-api';
           }
         </div>
       </fieldset>
-      <mat-form-field class="full">
+      <mat-form-field class="full" subscriptSizing="dynamic">
         <mat-label>Note for the committee</mat-label>
         <textarea matInput formControlName="note" rows="2"></textarea>
         @if (noteError(); as message) {

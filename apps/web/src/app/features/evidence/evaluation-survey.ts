@@ -43,7 +43,7 @@ import { EvidenceApi } from './evidence-api';
           </mat-radio-group>
         </div>
       }
-      <mat-form-field class="full">
+      <mat-form-field class="full" subscriptSizing="dynamic">
         <mat-label>Comment</mat-label>
         <textarea matInput formControlName="comment" rows="2"></textarea>
         <mat-hint>No names, record numbers, dates, phone numbers or e-mail addresses</mat-hint>
