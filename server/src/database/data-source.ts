@@ -29,6 +29,9 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
  * `typeorm_metadata` (which the demo data loader must not empty).
  */
 export const appTables = [
+  'evaluation_decisions',
+  'evaluation_feedback',
+  'evaluation_cases',
   'loan_settlements',
   'inspection_findings',
   'shipment_alerts',
