@@ -5,6 +5,7 @@ import type { DataSource } from 'typeorm';
 import type { Config } from '../config';
 import { csrfCookieName, newCsrfToken, writeCsrfCookie } from './csrf';
 import { AppError } from '../errors';
+import { createLRU } from 'lru.min';
 
 /** Name of the session cookie. */
 export const sessionCookieName = 'evalon.sid';
@@ -14,6 +15,11 @@ export const sessionCookieName = 'evalon.sid';
  * connection pool. The cookie lives `idleTimeoutMs` and is renewed on every response
  * (`rolling`), which makes that the idle timeout; the store drops rows past their expiry.
  * Expired rows are swept by {@link sweepExpiredSessions}, not by a store timer.
+ *
+ * `rolling` makes express-session touch the store after every request, an UPDATE per request.
+ * The stored expiry only has to be right to well under the idle timeout, so each process writes
+ * it at most once per {@link touchIntervalMs} for a session (it may then lag the cookie's
+ * expiry by up to that much); the cookie itself is still renewed on every response.
  */
 export function createSessionMiddleware(config: Config, dataSource: DataSource): RequestHandler {
   const MySQLStore = createMySQLStore(session);
@@ -28,6 +34,7 @@ export function createSessionMiddleware(config: Config, dataSource: DataSource):
     // TypeORM's mysql2 pool (callback API), which the store knows how to use.
     (dataSource.driver as unknown as { pool: unknown }).pool,
   );
+  throttleTouches(store, touchIntervalMs(config));
   return session({
     name: sessionCookieName,
     secret: config.session.secret,
@@ -43,6 +50,36 @@ export function createSessionMiddleware(config: Config, dataSource: DataSource):
       path: '/',
     },
   });
+}
+
+/** At most how often one process rewrites a session's stored expiry: 30 s, less for short idle timeouts. */
+export function touchIntervalMs(config: Config): number {
+  return Math.min(30_000, Math.floor(config.session.idleTimeoutMs / 100));
+}
+
+type TouchFn = (sid: string, data: session.SessionData, cb?: (err?: unknown) => void) => unknown;
+
+/** Skips a store's touch of a session written or touched by this process in the last `intervalMs`. */
+function throttleTouches(store: session.Store, intervalMs: number): void {
+  const written = createLRU<string, number>({ max: 50_000 });
+  const touch = (store.touch as TouchFn).bind(store);
+  const set = store.set.bind(store);
+  const destroy = store.destroy.bind(store);
+  store.set = (sid, data, cb) => {
+    written.set(sid, Date.now());
+    return set(sid, data, cb);
+  };
+  store.destroy = (sid, cb) => {
+    written.delete(sid);
+    return destroy(sid, cb);
+  };
+  store.touch = (sid, data, cb) => {
+    const last = written.get(sid);
+    const now = Date.now();
+    if (last !== undefined && now - last < intervalMs) return cb?.();
+    written.set(sid, now);
+    return touch(sid, data, cb);
+  };
 }
 
 /** Deletes session rows past their expiry; returns how many went. */
