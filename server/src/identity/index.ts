@@ -34,8 +34,8 @@ export const sessionUserCacheSize = 10_000;
  * auth context, and whether the account is active; null for an unknown id.
  *
  * Each process keeps the loaded person per user (LRU) together with the `users.auth_version`
- * it was read at, and per request reads only that number (a primary-key lookup) instead of the
- * person and their memberships. Database triggers bump the number on a role, membership,
+ * it was read at, and per request compares only that number (read with the session row, or a
+ * primary-key lookup) instead of loading the person and their memberships. Database triggers bump the number on a role, membership,
  * deactivation or profile change, whichever process or tool made it, so the change shows on the
  * very next request on every process. Chosen over a short time-to-live with explicit
  * invalidation because that is only immediate in the process that made the change; the others
@@ -44,10 +44,16 @@ export const sessionUserCacheSize = 10_000;
 export function sessionUserLoader(dataSource: DataSource) {
   type Loaded = { auth: AuthContext; active: boolean; version: number };
   const cache = createLRU<number, Loaded>({ max: sessionUserCacheSize });
-  return async (userId: number) => {
+  return async (userId: number, knownVersion?: number | null) => {
     const cached = cache.get(userId);
+    if (knownVersion === null) {
+      cache.delete(userId);
+      return null;
+    }
     if (cached) {
-      const version = await readAuthVersion(dataSource.manager, userId);
+      // The session store reads the version with the session (one round trip); read it here
+      // only when the caller did not.
+      const version = knownVersion ?? (await readAuthVersion(dataSource.manager, userId));
       if (version === null) {
         cache.delete(userId);
         return null;
