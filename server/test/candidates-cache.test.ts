@@ -95,7 +95,7 @@ describe('candidates served from the cache', () => {
           await makeProctor(t.dataSource, {
             home: o.home,
             radiusKm: o.radiusKm,
-            languages: o.languages,
+            languages: [...o.languages],
             experience: { [modelId]: o.cases },
             licences: [
               { jurisdiction: o.jurisdiction, validFrom: '2020-01-01', validTo: '2035-12-31' },

@@ -3,6 +3,7 @@
 import type { AppComponent } from '../app-services';
 import { Identity1764633600000 } from '../database/migrations/1764633600000-identity';
 import { UserAuthVersion1765300000000 } from '../database/migrations/1765300000000-user-auth-version';
+import { UsersUpdatedIndex1765300030000 } from '../database/migrations/1765300030000-users-updated-index';
 import { authRoutes } from './api/auth-routes';
 import { memberRoutes } from './api/member-routes';
 import { MembershipEntity, UserEntity, UserTokenEntity } from './data-access/entities';
@@ -82,7 +83,7 @@ export function sessionUserLoader(dataSource: DataSource) {
 export const identityComponent: AppComponent = {
   name: 'identity',
   entities: [UserEntity, MembershipEntity, UserTokenEntity],
-  migrations: [Identity1764633600000, UserAuthVersion1765300000000],
+  migrations: [Identity1764633600000, UserAuthVersion1765300000000, UsersUpdatedIndex1765300030000],
   routers: (ctx) => {
     const deps: IdentityDeps = {
       dataSource: ctx.dataSource,

@@ -44,6 +44,7 @@ export const UserEntity = new EntitySchema<UserRow>({
   indices: [
     { name: 'uq_users_email', columns: ['email'], unique: true },
     { name: 'uq_users_google_subject', columns: ['googleSubject'], unique: true },
+    { name: 'ix_users_updated', columns: ['updatedAt'] },
   ],
 });
 
