@@ -27,6 +27,14 @@ export { hashPassword } from './domain/passwords';
 export { managesOrganisation } from './domain/policy';
 export { invitationLifetimeMs, newOneTimeToken } from './domain/tokens';
 
+function deepFreeze<T>(value: T): T {
+  if (value && typeof value === 'object' && !Object.isFrozen(value)) {
+    Object.freeze(value);
+    for (const inner of Object.values(value)) deepFreeze(inner);
+  }
+  return value;
+}
+
 /** How many signed-in people one process keeps in its cache (about 1 kB each). */
 export const sessionUserCacheSize = 10_000;
 
@@ -66,8 +74,10 @@ export function sessionUserLoader(dataSource: DataSource) {
       cache.delete(userId);
       return null;
     }
+    // Shared by every request of this person until the version changes: frozen, so a route that
+    // tried to change it in place would fail loudly instead of changing other requests' view.
     const entry: Loaded = {
-      auth: toAuthContext(loaded.user),
+      auth: deepFreeze(toAuthContext(loaded.user)),
       active: loaded.active,
       version: loaded.version,
     };
