@@ -211,7 +211,7 @@ async function main() {
         `${withEarliest} with an earliest window found (window ${useFrom}..${useTo})`,
     );
 
-    const load = { connections: CONNECTIONS, duration: DURATION_S };
+    const load = { connections: CONNECTIONS, duration: DURATION_S, serverPid: server.pid };
     const health = await loadRoute(server.url, 'GET /api/health', '/api/health', load);
     // Warm-up first: JIT, connection pool, holiday calendars.
     const search = await loadRoute(server.url, 'GET /api/availability', searchPath, {
@@ -228,10 +228,17 @@ async function main() {
 
     for (const r of [health, search, me]) say(reportLine(r));
     const ratio = search.rps / health.rps;
+    const meRatio = me.rps / health.rps;
     say(`search req/s ÷ health req/s = ${(ratio * 100).toFixed(1)} %`);
+    say(`auth/me req/s ÷ health req/s = ${(meRatio * 100).toFixed(1)} %`);
+    say(
+      `CPU per request (server + MariaDB): search ${(search.cpu.total / health.cpu.total).toFixed(1)}× ` +
+        `health's, auth/me ${(me.cpu.total / health.cpu.total).toFixed(1)}× health's`,
+    );
     say(
       `targets: search p97.5 ≤ 50 ms → ${search.p97_5 <= 50 ? 'met' : 'NOT met'}; ` +
-        `≥ 25 % of health's req/s → ${ratio >= 0.25 ? 'met' : 'NOT met'}`,
+        `≥ 25 % of health's req/s → ${ratio >= 0.25 ? 'met' : 'NOT met'}; ` +
+        `auth/me ≥ 70 % of health's req/s → ${meRatio >= 0.7 ? 'met' : 'NOT met'}`,
     );
   } finally {
     await server.stop();

@@ -1,7 +1,8 @@
 // Shared pieces of the benchmark scripts (`npm run bench:availability`, `npm run bench:booking`):
 // a dedicated database, bulk loading, a built server on a free port, a signed-in session.
 // Benchmarks are scripts, not timed tests: they print what one run measured.
-import { spawn } from 'node:child_process';
+import { execFileSync, spawn } from 'node:child_process';
+import fs from 'node:fs';
 import autocannon from 'autocannon';
 import net from 'node:net';
 import path from 'node:path';
@@ -316,6 +317,7 @@ export async function startServer(port, extraEnv = {}) {
   }
   return {
     url: `http://127.0.0.1:${port}`,
+    pid: child.pid,
     output: () => output,
     stop: () =>
       new Promise((resolve) => {
@@ -391,27 +393,76 @@ export function summarise(name, result) {
   };
 }
 
+let clockTicks;
+/** CPU seconds (user + system) a process has used so far, from /proc (Linux). */
+function cpuSecondsOf(pid) {
+  clockTicks ??= Number(execFileSync('getconf', ['CLK_TCK'], { encoding: 'utf8' }).trim());
+  // Fields after the command name (which may hold spaces): utime and stime are 14th and 15th.
+  const stat = fs.readFileSync(`/proc/${pid}/stat`, 'utf8');
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+  return (Number(fields[11]) + Number(fields[12])) / clockTicks;
+}
+
+/** The pid of the MariaDB serving the benches (ours, from its pid file), or null. */
+export function mariadbPid() {
+  const file = process.env.BENCH_DB_PID_FILE ?? path.join(root, '.data/mariadb/mariadbd.pid');
+  try {
+    return Number(fs.readFileSync(file, 'utf8').trim());
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * A CPU meter over the server and MariaDB processes. On a shared machine requests per second
+ * swing with what else runs; the CPU time each request costs our two processes swings much
+ * less, so the benches print it beside the rates (a ratio of costs reads like a ratio of rates
+ * on a quiet machine).
+ */
+export function cpuMeter(serverPid) {
+  const dbPid = mariadbPid();
+  const read = () => ({
+    node: cpuSecondsOf(serverPid),
+    db: dbPid ? cpuSecondsOf(dbPid) : 0,
+  });
+  const start = read();
+  return {
+    /** CPU milliseconds per request since the meter started, for `requests` requests. */
+    perRequest(requests) {
+      const end = read();
+      const node = ((end.node - start.node) * 1000) / requests;
+      const db = ((end.db - start.db) * 1000) / requests;
+      return { node, db, total: node + db };
+    },
+  };
+}
+
 /**
  * Runs autocannon against one route of a running server: `connections` for `duration` seconds,
- * after a short warm-up (JIT, connection pool, caches) when `warmUp` is set.
+ * after a short warm-up (JIT, connection pool, caches) when `warmUp` is set. With `serverPid`,
+ * also the CPU time per request of the server and MariaDB (see {@link cpuMeter}).
  */
 export async function loadRoute(
   baseUrl,
   name,
   route,
-  { headers = {}, connections = 16, duration = 20, warmUp = false } = {},
+  { headers = {}, connections = 16, duration = 20, warmUp = false, serverPid } = {},
 ) {
   if (warmUp) await autocannon({ url: baseUrl + route, connections: 4, duration: 2, headers });
-  return summarise(
-    name,
-    await autocannon({ url: baseUrl + route, connections, duration, headers }),
-  );
+  const meter = serverPid ? cpuMeter(serverPid) : null;
+  const result = await autocannon({ url: baseUrl + route, connections, duration, headers });
+  const summary = summarise(name, result);
+  if (meter) summary.cpu = meter.perRequest(result.requests.total);
+  return summary;
 }
 
 /** One printed line per route: latency percentiles, requests per second, failures. */
 export function reportLine(r, width = 22) {
   return (
     `${r.name.padEnd(width)} p50 ${ms(r.p50)}  p97.5 ${ms(r.p97_5)}  p99 ${ms(r.p99)}  ` +
-    `${r.rps.toFixed(0)} req/s  (${r.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors)`
+    `${r.rps.toFixed(0)} req/s  (${r.total} requests, ${r.non2xx} non-2xx, ${r.errors} errors)` +
+    (r.cpu
+      ? `  CPU ${r.cpu.total.toFixed(2)} ms/req (node ${r.cpu.node.toFixed(2)} + MariaDB ${r.cpu.db.toFixed(2)})`
+      : '')
   );
 }

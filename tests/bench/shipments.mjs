@@ -13,6 +13,7 @@ import {
   bulkInsert,
   freePort,
   loadFleet,
+  cpuMeter,
   loanColumns,
   mondayAfter,
   ms,
@@ -173,6 +174,7 @@ async function main() {
     const headers = { cookie: session.cookie, 'x-xsrf-token': session.csrf };
 
     say(`board: ${SHIPMENTS} open shipments, first page filtered and sorted, 16 connections, 10 s`);
+    let meter = cpuMeter(server.pid);
     const board = await autocannon({
       url: `${server.url}/api/shipments?direction=outbound&state=to_pack&sort=due&page=1&pageSize=25`,
       connections: 16,
@@ -180,13 +182,16 @@ async function main() {
       headers,
     });
     const okBoard = board['2xx'];
+    const boardCpu = meter.perRequest(board.requests.total);
     say(
       `board: ${okBoard} answers 2xx, ${board.non2xx} other; p50 ${ms(board.latency.p50)}, ` +
-        `p97.5 ${ms(board.latency.p97_5)} (target ≤ 50 ms), ${board.requests.average.toFixed(0)} req/s`,
+        `p97.5 ${ms(board.latency.p97_5)} (target ≤ 50 ms), ${board.requests.average.toFixed(0)} req/s; ` +
+        `CPU ${boardCpu.total.toFixed(2)} ms/req (node ${boardCpu.node.toFixed(2)} + MariaDB ${boardCpu.db.toFixed(2)})`,
     );
 
     say(`scans: 16 connections, each on its own shipment, ${SCAN_SECONDS} s, one server process`);
     const expiry = '301231';
+    meter = cpuMeter(server.pid);
     const scans = await autocannon({
       url: server.url,
       connections: 16,
@@ -207,9 +212,11 @@ async function main() {
         },
       ],
     });
+    const scanCpu = meter.perRequest(scans.requests.total);
     say(
       `scans: ${scans['2xx']} ticked, ${scans.non2xx} other; ${(scans['2xx'] / SCAN_SECONDS).toFixed(0)} scans/s ` +
-        `(target ≥ 300/s); p97.5 ${ms(scans.latency.p97_5)}`,
+        `(target ≥ 300/s); p97.5 ${ms(scans.latency.p97_5)}; ` +
+        `CPU ${scanCpu.total.toFixed(2)} ms/scan (node ${scanCpu.node.toFixed(2)} + MariaDB ${scanCpu.db.toFixed(2)})`,
     );
   } finally {
     await server.stop();

@@ -15,6 +15,7 @@ import {
 } from './api/routes';
 import { shipmentEntities } from './data-access/entities';
 import { Shipments1765152000000 } from './data-access/migrations/1765152000000-shipments';
+import { ShipmentsBoardIndex1765300060000 } from './data-access/migrations/1765300060000-shipments-board-index';
 import { startShipmentAlertsJob, type ShipmentAlertsJob } from './domain/alerts';
 import type { Config } from '../config';
 import type { Logger } from '../logger';
@@ -111,7 +112,7 @@ function depsOf(ctx: Parameters<NonNullable<AppComponent['routers']>>[0]): Shipm
 export const shipmentsComponent: AppComponent = {
   name: 'shipments',
   entities: shipmentEntities,
-  migrations: [Shipments1765152000000],
+  migrations: [Shipments1765152000000, ShipmentsBoardIndex1765300060000],
   // The carrier signs the exact bytes it sends, and sends no session or CSRF token.
   rawRouters: (ctx) => [carrierWebhookRoutes(depsOf(ctx), ctx.catalogue)],
   routers: (ctx) => [

@@ -16,6 +16,11 @@ export interface UserRow {
   /** Google `sub`, linked at the first Google sign-in. */
   googleSubject: string | null;
   lastSignInAt: Date | null;
+  /**
+   * Bumped by database triggers whenever what a session knows about the person changes
+   * (migration 1765300000000); the signed-in person cache compares it on every request.
+   */
+  authVersion: number;
   createdAt: Date;
   updatedAt: Date;
 }
@@ -32,12 +37,14 @@ export const UserEntity = new EntitySchema<UserRow>({
     timeZone: { type: 'varchar', length: 64, name: 'time_zone', nullable: true },
     googleSubject: { type: 'varchar', length: 255, name: 'google_subject', nullable: true },
     lastSignInAt: instantColumn('last_sign_in_at', true),
+    authVersion: { type: 'int', unsigned: true, name: 'auth_version', default: 0 },
     createdAt: instantColumn('created_at'),
     updatedAt: instantColumn('updated_at'),
   },
   indices: [
     { name: 'uq_users_email', columns: ['email'], unique: true },
     { name: 'uq_users_google_subject', columns: ['googleSubject'], unique: true },
+    { name: 'ix_users_updated', columns: ['updatedAt'] },
   ],
 });
 

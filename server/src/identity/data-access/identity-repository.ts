@@ -86,42 +86,68 @@ export async function updateUser(
   await m.update(UserEntity, { id }, { ...changes, updatedAt: now });
 }
 
-interface MembershipJoinRow {
-  organisationId: number;
-  organisationName: string;
-  organisationKind: Membership['organisationKind'];
-  role: Role;
+interface SessionUserRow {
+  id: number;
+  email: string;
+  name: string;
+  timeZone: string | null;
+  active: number | boolean;
+  authVersion: number;
+  organisationId: number | null;
+  organisationName: string | null;
+  organisationKind: Membership['organisationKind'] | null;
+  role: Role | null;
 }
 
-/** The person with memberships as the session sees them, or null when no such user exists. */
+/**
+ * The person with memberships as the session sees them and the `auth_version` they were read
+ * at, or null when no such user exists. One statement, so the version and the memberships come
+ * from the same snapshot (a cache keyed by the version can never hold newer data under an
+ * older number or the reverse).
+ */
 export async function loadSessionUser(
   m: EntityManager,
   userId: number,
-): Promise<{ user: SessionUser; active: boolean } | null> {
-  const user = await findUserById(m, userId);
-  if (!user) return null;
-  const rows: MembershipJoinRow[] = await m.query(
-    `SELECT o.id AS organisationId, o.name AS organisationName, o.kind AS organisationKind, ms.role AS role
-       FROM memberships ms JOIN organisations o ON o.id = ms.organisation_id
-      WHERE ms.user_id = ?
+): Promise<{ user: SessionUser; active: boolean; version: number } | null> {
+  const rows: SessionUserRow[] = await m.query(
+    `SELECT u.id, u.email, u.name, u.time_zone AS timeZone, u.active, u.auth_version AS authVersion,
+            o.id AS organisationId, o.name AS organisationName, o.kind AS organisationKind,
+            ms.role AS role
+       FROM users u
+       LEFT JOIN memberships ms ON ms.user_id = u.id
+       LEFT JOIN organisations o ON o.id = ms.organisation_id
+      WHERE u.id = ?
       ORDER BY o.name, ms.role`,
     [userId],
   );
+  const first = rows[0];
+  if (!first) return null;
   return {
-    active: user.active,
+    active: Boolean(Number(first.active)),
+    version: Number(first.authVersion),
     user: {
-      id: user.id,
-      email: user.email,
-      name: user.name,
-      timeZone: user.timeZone,
-      memberships: rows.map((r) => ({
-        organisationId: Number(r.organisationId),
-        organisationName: r.organisationName,
-        organisationKind: r.organisationKind,
-        role: r.role,
-      })),
+      id: Number(first.id),
+      email: first.email,
+      name: first.name,
+      timeZone: first.timeZone,
+      memberships: rows
+        .filter((r) => r.organisationId !== null && r.role !== null)
+        .map((r) => ({
+          organisationId: Number(r.organisationId),
+          organisationName: r.organisationName ?? '',
+          organisationKind: r.organisationKind as Membership['organisationKind'],
+          role: r.role as Role,
+        })),
     },
   };
+}
+
+/** The person's `auth_version` (see {@link loadSessionUser}), or null when no such user exists. */
+export async function readAuthVersion(m: EntityManager, userId: number): Promise<number | null> {
+  const rows: { v: number }[] = await m.query('SELECT auth_version AS v FROM users WHERE id = ?', [
+    userId,
+  ]);
+  return rows[0] ? Number(rows[0].v) : null;
 }
 
 /** Inserts a membership and returns its id. */

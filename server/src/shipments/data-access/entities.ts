@@ -47,6 +47,10 @@ export const ShipmentEntity = new EntitySchema<ShipmentRow>({
   },
   indices: [
     { name: 'ix_shipments_board', columns: ['lenderId', 'state', 'dueBy'] },
+    {
+      name: 'ix_shipments_board_direction',
+      columns: ['lenderId', 'direction', 'state', 'dueBy'],
+    },
     { name: 'ix_shipments_hospital', columns: ['hospitalId', 'state'] },
     { name: 'ix_shipments_open', columns: ['state', 'overdueAt'] },
     { name: 'uq_shipments_leg', columns: ['loanId', 'direction', 'depotId'], unique: true },

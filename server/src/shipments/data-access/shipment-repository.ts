@@ -316,6 +316,24 @@ export async function tickItem(
   );
 }
 
+/**
+ * A scan's tick and the shipment's `updated_at` in one statement (the scan route's hot path:
+ * one round trip fewer per scan than {@link tickItem} plus {@link updateShipment}).
+ */
+export async function tickItemAndTouch(
+  m: EntityManager,
+  itemId: number,
+  shipmentId: number,
+  now: Date,
+): Promise<void> {
+  await m.query(
+    `UPDATE shipment_items i JOIN shipments s ON s.id = i.shipment_id
+        SET i.scanned = i.scanned + 1, s.updated_at = ?
+      WHERE i.id = ? AND s.id = ?`,
+    [now, itemId, shipmentId],
+  );
+}
+
 /** Resets a return's checklist counts (the return re-uses the outbound's lines as a copy). */
 export async function copyItems(m: EntityManager, fromId: number, toId: number): Promise<void> {
   await m.query(

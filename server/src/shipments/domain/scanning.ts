@@ -12,6 +12,7 @@ import {
   insertScan,
   serialScanned,
   tickItem,
+  tickItemAndTouch,
   updateShipment,
   type ItemRow,
   type ShipmentRow,
@@ -224,7 +225,7 @@ export async function recordScan(
     if (!plan.ok) {
       return refuse(new AppError(422, plan.code, plan.message, plan.details), parsed);
     }
-    await tickItem(m, plan.item.id);
+    await tickItemAndTouch(m, plan.item.id, shipmentId, now);
     const scanId = await insertScan(
       m,
       {
@@ -244,7 +245,6 @@ export async function recordScan(
       },
       now,
     );
-    await updateShipment(m, shipmentId, {}, now);
     return {
       scanId,
       item: { ...plan.item, scanned: plan.item.scanned + 1 },

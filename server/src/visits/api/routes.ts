@@ -22,7 +22,7 @@ import {
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
-import { listCandidates } from '../domain/candidates';
+import { candidatesJson } from '../domain/candidates';
 import type { VisitDeps } from '../domain/deps';
 import {
   acceptOffer,
@@ -73,7 +73,10 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
       },
     },
     async ({ req, res, query }) => {
-      res.json({ items: await listCandidates(deps, currentAuth(req), query) });
+      // Served from the ranking's cached JSON (see candidates.ts); never cached by the browser.
+      const body = await candidatesJson(deps, currentAuth(req), query);
+      res.setHeader('Cache-Control', 'no-store');
+      res.type('application/json').end(body);
     },
   );
 

@@ -5,6 +5,7 @@ import {
   candidateDataVersion,
   findCampus,
   findModelSettings,
+  type CampusRow,
 } from '../data-access/visit-repository';
 import type { VisitDeps } from './deps';
 import { matchVisit } from './matching';
@@ -13,7 +14,25 @@ import { isRequesterOf } from './scope';
 /** How long a ranked list may be served again for the same search and the same data. */
 const cacheTtlMs = 60_000;
 const cacheSize = 200;
-const cache = new Map<string, { at: number; items: Candidate[] }>();
+/**
+ * A ranked list and its JSON answer, computed once per key: concurrent first searches wait for
+ * the same computation instead of each ranking a thousand proctors, and repeats are served
+ * the serialised answer (about 0.5 MB for 1,000 proctors) without serialising it again.
+ */
+interface Ranked {
+  items: Candidate[];
+  json: string;
+}
+const cache = new Map<string, { at: number; ranked: Promise<Ranked> }>();
+
+/** {@link listCandidates} as the route answers it: `{"items": [...]}` serialised once per list. */
+export async function candidatesJson(
+  deps: VisitDeps,
+  auth: AuthContext,
+  query: { siteId: number; modelId: number; from: string; to: string; language?: string },
+): Promise<string> {
+  return (await rankCandidates(deps, auth, query)).json;
+}
 
 /**
  * Every proctor for a visit request, ranked by the matching package: the eligible first by
@@ -24,6 +43,14 @@ export async function listCandidates(
   auth: AuthContext,
   query: { siteId: number; modelId: number; from: string; to: string; language?: string },
 ): Promise<Candidate[]> {
+  return (await rankCandidates(deps, auth, query)).items;
+}
+
+async function rankCandidates(
+  deps: VisitDeps,
+  auth: AuthContext,
+  query: { siteId: number; modelId: number; from: string; to: string; language?: string },
+): Promise<Ranked> {
   const m = deps.dataSource.manager;
   const [campus, model] = await Promise.all([
     findCampus(m, query.siteId),
@@ -53,9 +80,25 @@ export async function listCandidates(
     await candidateDataVersion(m),
   ]);
   const hit = cache.get(key);
-  if (hit && now.getTime() - hit.at < cacheTtlMs) return hit.items;
+  if (hit && now.getTime() - hit.at < cacheTtlMs) return hit.ranked;
+  const ranked = rank(deps, campus, model, query);
+  if (cache.size >= cacheSize) cache.delete(cache.keys().next().value!);
+  cache.set(key, { at: now.getTime(), ranked });
+  // A failed ranking is not kept: the next search tries again.
+  ranked.catch(() => {
+    if (cache.get(key)?.ranked === ranked) cache.delete(key);
+  });
+  return ranked;
+}
+
+async function rank(
+  deps: VisitDeps,
+  campus: CampusRow,
+  model: { id: number; minSupervisedCases: number },
+  query: { from: string; to: string; language?: string },
+): Promise<Ranked> {
   const matches = await matchVisit(
-    m,
+    deps.dataSource.manager,
     {
       campus,
       modelId: model.id,
@@ -68,7 +111,7 @@ export async function listCandidates(
     deps.settings,
     deps.now(),
   );
-  const items = matches.map((x) => ({
+  const items: Candidate[] = matches.map((x) => ({
     proctorId: Number(x.proctorId),
     name: x.name,
     eligible: x.eligible,
@@ -79,7 +122,5 @@ export async function listCandidates(
     travelDays: x.travelDays,
     feeEstimate: x.feeEstimate,
   }));
-  if (cache.size >= cacheSize) cache.delete(cache.keys().next().value!);
-  cache.set(key, { at: now.getTime(), items });
-  return items;
+  return { items, json: JSON.stringify({ items }) };
 }
