@@ -86,6 +86,21 @@ describe('configuration', () => {
     );
   });
 
+  it('points Google sign-in at the stand-in on EVALON_OAUTH_PORT unless URLs are given', () => {
+    const moved = loadConfig({ EVALON_OAUTH_PORT: '8119' });
+    expect(moved.google.authorizationUrl).toBe('http://127.0.0.1:8119/authorize');
+    expect(moved.google.tokenUrl).toBe('http://127.0.0.1:8119/token');
+    expect(moved.google.userInfoUrl).toBe('http://127.0.0.1:8119/userinfo');
+    const explicit = loadConfig({
+      EVALON_OAUTH_PORT: '8119',
+      EVALON_GOOGLE_TOKEN_URL: 'https://oauth2.example/token',
+    });
+    expect(explicit.google.tokenUrl).toBe('https://oauth2.example/token');
+    expect(() => loadConfig({ EVALON_GOOGLE_AUTH_URL: 'ftp://x' })).toThrow(
+      /EVALON_GOOGLE_AUTH_URL/,
+    );
+  });
+
   it('refuses the development session secret in production', () => {
     expect(() => loadConfig({ NODE_ENV: 'production' })).toThrow(/EVALON_SESSION_SECRET/);
     expect(loadConfig({ NODE_ENV: 'production', EVALON_SESSION_SECRET: 'x'.repeat(32) }).env).toBe(

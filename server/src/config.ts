@@ -27,15 +27,15 @@ const positive = (fallback: number) =>
       .positive('must be greater than 0')
       .default(fallback),
   );
-const url = (fallback: string) =>
+const url = (fallback?: string) =>
   z.preprocess(
     blankAsMissing,
-    z
-      .string()
-      .default(fallback)
-      .refine((v) => /^https?:\/\/[^/\s]+/i.test(v) && URL.canParse(v), {
+    (fallback === undefined ? z.string().optional() : z.string().default(fallback)).refine(
+      (v) => /^https?:\/\/[^/\s]+/i.test(v) && URL.canParse(v),
+      {
         message: 'must be an http:// or https:// URL',
-      }),
+      },
+    ),
   );
 
 /** Every environment variable the server reads, with its default. */
@@ -75,9 +75,12 @@ const envSchema = z.object({
   EVALON_LOGIN_MAX_FAILURES_PER_IP: positive(20),
   EVALON_GOOGLE_CLIENT_ID: str('evalon-local-client'),
   EVALON_GOOGLE_CLIENT_SECRET: str('evalon-local-secret'),
-  EVALON_GOOGLE_AUTH_URL: url('http://127.0.0.1:8089/authorize'),
-  EVALON_GOOGLE_TOKEN_URL: url('http://127.0.0.1:8089/token'),
-  EVALON_GOOGLE_USERINFO_URL: url('http://127.0.0.1:8089/userinfo'),
+  // Without explicit URLs the sign-in stand-in on EVALON_OAUTH_PORT answers, the port the
+  // start and test scripts give it (a second checkout runs its stand-ins on other ports).
+  EVALON_OAUTH_PORT: port(8089),
+  EVALON_GOOGLE_AUTH_URL: url(),
+  EVALON_GOOGLE_TOKEN_URL: url(),
+  EVALON_GOOGLE_USERINFO_URL: url(),
   EVALON_WEB_DIST: str('dist/web/browser'),
   EVALON_ROOT: z.preprocess(blankAsMissing, z.string().optional()),
   EVALON_UPLOAD_DIR: str('.data/uploads'),
@@ -331,6 +334,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     );
   }
   const e = parsed.data;
+  const oauthStandIn = `http://127.0.0.1:${e.EVALON_OAUTH_PORT}`;
   const problems: string[] = [];
   if (e.NODE_ENV === 'production' && e.EVALON_SESSION_SECRET === developmentSessionSecret) {
     problems.push('EVALON_SESSION_SECRET: set a secret of your own in production');
@@ -390,9 +394,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     google: {
       clientId: e.EVALON_GOOGLE_CLIENT_ID,
       clientSecret: e.EVALON_GOOGLE_CLIENT_SECRET,
-      authorizationUrl: e.EVALON_GOOGLE_AUTH_URL,
-      tokenUrl: e.EVALON_GOOGLE_TOKEN_URL,
-      userInfoUrl: e.EVALON_GOOGLE_USERINFO_URL,
+      authorizationUrl: e.EVALON_GOOGLE_AUTH_URL ?? `${oauthStandIn}/authorize`,
+      tokenUrl: e.EVALON_GOOGLE_TOKEN_URL ?? `${oauthStandIn}/token`,
+      userInfoUrl: e.EVALON_GOOGLE_USERINFO_URL ?? `${oauthStandIn}/userinfo`,
     },
     webDist: path.resolve(process.cwd(), e.EVALON_WEB_DIST),
     rootDir,
