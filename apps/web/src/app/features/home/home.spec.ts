@@ -6,19 +6,23 @@ import { TestBed } from '@angular/core/testing';
 import { MatButtonHarness } from '@angular/material/button/testing';
 import { MatCardHarness } from '@angular/material/card/testing';
 import { provideRouter } from '@angular/router';
-import type { Loan, Membership } from '@evalon/contracts';
+import type { Loan, Membership, ShipmentSummary } from '@evalon/contracts';
 import { errorInterceptor } from '../../core/interceptors';
 import { SessionStore } from '../../core/session-store';
 import { addDays, formatDay, todayIn } from '../../shared/iso-date';
 import { future, loan } from '../../testing/marketplace';
 import { outboxMessage } from '../../testing/payments';
 import { membership, person } from '../../testing/people';
+import { visit } from '../../testing/visits';
 import { Home, greetingFor } from './home';
 import {
   approvalsSummary,
   arrivalsSummary,
   buyerLoansSummary,
+  buyerVisitsSummary,
   outboxSummary,
+  proctorOffersSummary,
+  returnsSummary,
   shippingSummary,
 } from './next-steps';
 
@@ -45,6 +49,9 @@ const confirmed = loan({ id: 13, reference: 'EV-2026-000013', state: 'confirmed'
 const closed = loan({ id: 14, reference: 'EV-2026-000014', state: 'closed' });
 const declined = loan({ id: 15, reference: 'EV-2026-000015', state: 'declined' });
 
+const visitsUrl = '/api/visits';
+const returnsUrl = '/api/shipments?direction=return&pageSize=100&sort=due';
+
 describe('Home', () => {
   let http: HttpTestingController;
 
@@ -52,7 +59,13 @@ describe('Home', () => {
    * Renders Home for `memberships`, answering each API read by its URL (path and query) from
    * `answers`, and returns the page.
    */
-  async function render(memberships: Membership[], answers: Record<string, Answer> = {}) {
+  async function render(memberships: Membership[], given: Record<string, Answer> = {}) {
+    // Visits and returns answer "none" unless a test says otherwise.
+    const answers: Record<string, Answer> = {
+      [visitsUrl]: { body: { items: [] } },
+      [returnsUrl]: { body: { items: [] } },
+      ...given,
+    };
     TestBed.configureTestingModule({
       providers: [
         provideRouter([]),
@@ -120,7 +133,7 @@ describe('Home', () => {
     const { fixture, asked } = await render([membership('velmora', 'buyer')], {
       '/api/loans?limit=500': { body: { items: [requested, confirmed, approved, closed] } },
     });
-    expect(asked).toEqual(['/api/loans?limit=500']);
+    expect(asked).toEqual(['/api/loans?limit=500', '/api/visits']);
     const card = fixture.nativeElement.querySelector('li mat-card') as HTMLElement;
     expect(card.querySelector('.headline')?.textContent).toBe('3 active loans · 1 needs a deposit');
     const items = Array.from(card.querySelectorAll('a.item')) as HTMLAnchorElement[];
@@ -223,6 +236,7 @@ describe('Home', () => {
     expect(text()).toContain('What Evalon does');
     await (await loader.getHarness(MatButtonHarness.with({ text: /Try again/ }))).click();
     http.expectOne('/api/loans?limit=500').flush({ items: [approved] });
+    http.expectOne('/api/visits').flush({ items: [] });
     await new Promise((resolve) => setTimeout(resolve));
     expect((await cardTexts(loader))[0]).toContain('Secure the deposit for EV-2026-000011');
   });
@@ -286,7 +300,11 @@ describe('next steps from loans', () => {
 
   it('marks loans to ship within two days, or late, as needing action', () => {
     const at = (id: number, shipBy: string): Loan => {
-      const l = loan({ id, reference: `EV-2026-${String(id).padStart(6, '0')}`, state: 'confirmed' });
+      const l = loan({
+        id,
+        reference: `EV-2026-${String(id).padStart(6, '0')}`,
+        state: 'confirmed',
+      });
       return { ...l, milestones: { ...l.milestones, shipBy } };
     };
     const summary = shippingSummary(
@@ -329,5 +347,104 @@ describe('greetingFor', () => {
       'Good evening',
       'Good evening',
     ]);
+  });
+});
+
+describe('next steps from visits and returns', () => {
+  const today = '2027-03-01';
+
+  it('puts a hospital’s unfilled visits first, then those waiting, then booked ones', () => {
+    const summary = buyerVisitsSummary(
+      [
+        visit({ id: 1, state: 'accepted', proctorName: 'Dr Example' }),
+        visit({ id: 2, state: 'unfilled', reference: 'PV-2027-000002' }),
+        visit({ id: 3, state: 'signed_off' }),
+        visit({
+          id: 4,
+          currentOffer: {
+            id: 9,
+            proctorId: 101,
+            proctorName: 'Dr Waiting',
+            position: 1,
+            state: 'offered',
+            score: 0.8,
+            offeredAt: '2027-02-27T09:00:00Z',
+            deadlineAt: '2027-03-01T09:00:00Z',
+            answeredAt: null,
+            reason: null,
+          },
+        }),
+      ],
+      today,
+    );
+    expect(summary?.headline).toBe('3 visits under way · 1 needs you');
+    expect(summary?.items.map((i) => [i.text, i.tone])).toEqual([
+      ['No proctor found for PV-2027-000002', 'action'],
+      ['Waiting for Dr Waiting to answer', 'waiting'],
+      ['Dr Example comes to North Campus', 'info'],
+    ]);
+    expect(buyerVisitsSummary([visit({ state: 'cancelled' })], today)).toBeNull();
+  });
+
+  it('shows a proctor only the offers they hold, and their visits still to come', () => {
+    const held = (id: number, proctorId: number) =>
+      visit({
+        id,
+        currentOffer: {
+          id,
+          proctorId,
+          proctorName: 'P',
+          position: 1,
+          state: 'offered',
+          score: null,
+          offeredAt: null,
+          deadlineAt: '2027-03-02T09:00:00Z',
+          answeredAt: null,
+          reason: null,
+        },
+      });
+    const summary = proctorOffersSummary(
+      [held(1, 101), held(2, 202), visit({ id: 3, state: 'accepted', proctorId: 101 })],
+      101,
+      today,
+    );
+    expect(summary?.headline).toBe('1 offer waiting for your answer');
+    expect(summary?.items.map((i) => i.link)).toEqual(['/proctor', '/visits/3']);
+    expect(proctorOffersSummary([held(2, 202)], 101, today)).toBeNull();
+  });
+
+  it('asks a coordinator to inspect received returns before those on the way', () => {
+    const leg = (id: number, state: ShipmentSummary['state']) =>
+      ({
+        id,
+        reference: `SH-${id}`,
+        loanId: id,
+        loanReference: `EV-2027-00000${id}`,
+        loanState: 'returning',
+        direction: 'return',
+        state,
+        depotId: 1,
+        depotName: 'East Depot',
+        siteId: 2,
+        siteName: 'North Campus',
+        hospitalName: 'Velmora Health',
+        carrier: null,
+        trackingNumber: null,
+        carrierStatus: null,
+        dueBy: '2027-03-05',
+        shipBy: '2027-03-03',
+        eta: null,
+        risk: 'on_time',
+        itemsDone: 0,
+        itemsTotal: 3,
+        updatedAt: '2027-03-01T09:00:00Z',
+      }) as ShipmentSummary;
+    const summary = returnsSummary([leg(1, 'in_transit'), leg(2, 'received'), leg(3, 'inspected')]);
+    expect(summary?.headline).toBe('1 return to inspect');
+    expect(summary?.items.map((i) => i.text)).toEqual([
+      'Inspect EV-2027-000002',
+      'EV-2027-000001 on its way back',
+    ]);
+    expect(returnsSummary([leg(3, 'inspected')])).toBeNull();
   });
 });

@@ -28,8 +28,11 @@ import {
   approvalsSummary,
   arrivalsSummary,
   buyerLoansSummary,
+  buyerVisitsSummary,
   nextStepsFor,
   outboxSummary,
+  proctorOffersSummary,
+  returnsSummary,
   shippingSummary,
 } from './next-steps';
 
@@ -163,6 +166,20 @@ export class Home {
         return loansIn('confirmed').pipe(
           map((loans) => shippingSummary(loans, today, this.locale)),
         );
+      case 'returns':
+        return this.api.returns().pipe(map((legs) => returnsSummary(legs, this.locale)));
+      case 'buyer-visits':
+        return this.api
+          .visits()
+          .pipe(map((visits) => buyerVisitsSummary(visits, today, this.locale)));
+      case 'proctor-offers':
+        return this.api
+          .visits()
+          .pipe(
+            map((visits) =>
+              proctorOffersSummary(visits, this.session.user()?.id ?? null, today, this.locale),
+            ),
+          );
       case 'arrivals':
         return loansIn().pipe(map((loans) => arrivalsSummary(loans, today, this.locale)));
       case 'outbox':

@@ -1,13 +1,28 @@
-import type { Loan, LoanState, OutboxMessage, Role } from '@evalon/contracts';
+import type {
+  Loan,
+  LoanState,
+  OutboxMessage,
+  Role,
+  ShipmentSummary,
+  Visit,
+} from '@evalon/contracts';
 import { addDays, formatDay, formatWindowCompact } from '../../shared/iso-date';
 
 /**
  * Where a card's live content comes from: the buyer's loans, the fleet manager's waiting
- * requests, the coordinator's confirmed loans to ship, the clinician's upcoming loans, the
- * admin's parked e-mails. Cards without a source show their empty state (their feature is not
- * built yet).
+ * requests, the coordinator's confirmed loans to ship and returns coming back, the clinician's
+ * upcoming loans, the hospital's proctoring visits, the proctor's offers, the admin's parked
+ * e-mails. Cards without a source show their fixed text with a link.
  */
-export type LiveSource = 'buyer-loans' | 'approvals' | 'shipping' | 'arrivals' | 'outbox';
+export type LiveSource =
+  | 'buyer-loans'
+  | 'approvals'
+  | 'shipping'
+  | 'returns'
+  | 'arrivals'
+  | 'buyer-visits'
+  | 'proctor-offers'
+  | 'outbox';
 
 /** A card on the home page: what to look at next, and what it looks like when there is nothing. */
 export interface NextStep {
@@ -196,6 +211,155 @@ export function arrivalsSummary(
   };
 }
 
+const byFirstDay = (a: Visit, b: Visit) => a.from.localeCompare(b.from) || a.id - b.id;
+
+/**
+ * A hospital's proctoring visits under way: the unfilled ones first (nobody accepted: widen the
+ * search or cancel), then those waiting for a proctor's answer, then the booked ones still to
+ * come. Null when none is under way.
+ */
+export function buyerVisitsSummary(
+  visits: readonly Visit[],
+  today: string,
+  locale = 'en-US',
+): StepSummary | null {
+  const unfilled = visits.filter((v) => v.state === 'unfilled' && v.to >= today).sort(byFirstDay);
+  const waiting = visits
+    .filter((v) => v.state === 'requested' || v.state === 'offered')
+    .sort(byFirstDay);
+  const booked = visits.filter((v) => v.state === 'accepted' && v.to >= today).sort(byFirstDay);
+  const all = unfilled.length + waiting.length + booked.length;
+  if (!all) return null;
+  const where = (v: Visit) =>
+    `${v.modelName} at ${v.siteName} · ${formatWindowCompact(v.from, v.to, locale)}`;
+  const items: StepItem[] = [
+    ...unfilled.map((v) => ({
+      key: `visit-${v.id}`,
+      icon: 'person_search',
+      text: `No proctor found for ${v.reference}`,
+      detail: `${where(v)} · widen the search or cancel`,
+      link: `/visits/${v.id}`,
+      tone: 'action' as const,
+    })),
+    ...waiting.map((v) => ({
+      key: `visit-${v.id}`,
+      icon: 'hourglass_top',
+      text: v.currentOffer
+        ? `Waiting for ${v.currentOffer.proctorName} to answer`
+        : `Finding a proctor for ${v.reference}`,
+      detail: where(v),
+      link: `/visits/${v.id}`,
+      tone: 'waiting' as const,
+    })),
+    ...booked.map((v) => ({
+      key: `visit-${v.id}`,
+      icon: 'event_available',
+      text: `${v.proctorName ?? 'Proctor'} comes to ${v.siteName}`,
+      detail: `${v.modelName} · ${formatWindowCompact(v.from, v.to, locale)}`,
+      link: `/visits/${v.id}`,
+      tone: 'info' as const,
+    })),
+  ];
+  const needYou = unfilled.length
+    ? ` · ${unfilled.length} ${unfilled.length === 1 ? 'needs' : 'need'} you`
+    : '';
+  return {
+    headline: `${plural(all, 'visit under way', 'visits under way')}${needYou}`,
+    ...limited(items),
+    quiet: 'Nothing needs you right now: proctors are answering or coming as booked.',
+  };
+}
+
+/**
+ * A proctor's offers waiting for their answer (soonest deadline first), then their booked visits
+ * still to come. Null when there is neither.
+ */
+export function proctorOffersSummary(
+  visits: readonly Visit[],
+  proctorId: number | null,
+  today: string,
+  locale = 'en-US',
+): StepSummary | null {
+  if (proctorId === null) return null;
+  const offers = visits
+    .filter((v) => v.state === 'offered' && v.currentOffer?.proctorId === proctorId)
+    .sort(
+      (a, b) =>
+        (a.currentOffer?.deadlineAt ?? '').localeCompare(b.currentOffer?.deadlineAt ?? '') ||
+        a.id - b.id,
+    );
+  const booked = visits
+    .filter((v) => v.state === 'accepted' && v.proctorId === proctorId && v.to >= today)
+    .sort(byFirstDay);
+  if (!offers.length && !booked.length) return null;
+  const items: StepItem[] = [
+    ...offers.map((v) => ({
+      key: `visit-${v.id}`,
+      icon: 'mark_email_unread',
+      text: `Answer ${v.hospitalName}`,
+      detail: `${v.modelName} at ${v.siteName} · ${formatWindowCompact(v.from, v.to, locale)}`,
+      link: '/proctor',
+      tone: 'action' as const,
+    })),
+    ...booked.map((v) => ({
+      key: `visit-${v.id}`,
+      icon: 'event_available',
+      text: `${v.siteName}, ${v.hospitalName}`,
+      detail: `${v.modelName} · ${formatWindowCompact(v.from, v.to, locale)}`,
+      link: `/visits/${v.id}`,
+      tone: 'info' as const,
+    })),
+  ];
+  return {
+    headline: offers.length
+      ? `${plural(offers.length, 'offer', 'offers')} waiting for your answer`
+      : `${plural(booked.length, 'visit', 'visits')} coming up`,
+    ...limited(items),
+    quiet: 'No offer waits for your answer.',
+  };
+}
+
+/**
+ * A coordinator's returns: received ones to inspect first, then those on their way back by the
+ * day they are due. Null when none is open.
+ */
+export function returnsSummary(
+  returns: readonly ShipmentSummary[],
+  locale = 'en-US',
+): StepSummary | null {
+  const open = returns.filter((s) => s.direction === 'return');
+  const toInspect = open.filter((s) => s.state === 'received');
+  const coming = open
+    .filter((s) => s.state === 'handed_over' || s.state === 'in_transit')
+    .sort((a, b) => a.dueBy.localeCompare(b.dueBy) || a.id - b.id);
+  if (!toInspect.length && !coming.length) return null;
+  const items: StepItem[] = [
+    ...toInspect.map((s) => ({
+      key: `shipment-${s.id}`,
+      icon: 'fact_check',
+      text: `Inspect ${s.loanReference}`,
+      detail: `Back at ${s.depotName} from ${s.hospitalName}`,
+      link: `/shipments/${s.id}`,
+      tone: 'action' as const,
+    })),
+    ...coming.map((s) => ({
+      key: `shipment-${s.id}`,
+      icon: 'local_shipping',
+      text: `${s.loanReference} on its way back`,
+      detail: `To ${s.depotName}${s.eta ? ` · expected ${formatDay(s.eta, 'medium', locale)}` : ''}`,
+      link: `/shipments/${s.id}`,
+      tone: 'info' as const,
+    })),
+  ];
+  return {
+    headline: toInspect.length
+      ? `${plural(toInspect.length, 'return', 'returns')} to inspect`
+      : `${plural(coming.length, 'return', 'returns')} on the way back`,
+    ...limited(items),
+    quiet: 'Nothing to inspect yet.',
+  };
+}
+
 /**
  * The admin's parked e-mails. `limit` is how many were asked for: a full page means there may be
  * more ("200+"). Null when every e-mail was delivered.
@@ -241,6 +405,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyHeading: 'No proctoring visits booked',
       emptyMessage: 'Once a loan is approved, ask for a proctor to supervise the first cases.',
       action: { label: 'Open proctoring', link: '/visits' },
+      live: 'buyer-visits',
     },
   ],
   clinician: [
@@ -251,17 +416,25 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyHeading: 'Nothing on its way to your campus',
       emptyMessage:
         'When a loan is confirmed you’ll see here when the kit arrives and when the proctor comes.',
-      action: { label: 'Open schedule', link: '/schedule' },
+      action: { label: 'Open loans', link: '/loans' },
       live: 'arrivals',
     },
     {
       key: 'case-log',
       icon: 'clinical_notes',
-      title: 'Case log',
-      emptyHeading: 'No cases to log yet',
+      title: 'Evaluation cases',
+      emptyHeading: 'Record each evaluation case',
       emptyMessage:
-        'Log each evaluation case once the kit has arrived — de-identified, no patient details.',
-      action: { label: 'Open case log', link: '/case-log' },
+        'Once the kit has arrived, record each case on the loan’s page — de-identified, no patient details.',
+      action: { label: 'Open loans', link: '/loans' },
+    },
+    {
+      key: 'training',
+      icon: 'school',
+      title: 'My training',
+      emptyHeading: 'Your supervised cases',
+      emptyMessage: 'Cases a proctor supervised you on and your sign-offs are kept here.',
+      action: { label: 'Open my training', link: '/training' },
     },
   ],
   proctor: [
@@ -272,6 +445,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyHeading: 'No visit offers waiting',
       emptyMessage: 'Hospitals’ requests for you to supervise first cases will appear here.',
       action: { label: 'Open visit offers', link: '/proctor' },
+      live: 'proctor-offers',
     },
     {
       key: 'credentials',
@@ -300,6 +474,7 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
       emptyHeading: 'No returns waiting for inspection',
       emptyMessage: 'Units coming back from hospitals are listed here for receipt and inspection.',
       action: { label: 'Open shipments', link: '/shipments' },
+      live: 'returns',
     },
   ],
   fleet_manager: [
@@ -331,22 +506,6 @@ export const nextStepsByRole: Readonly<Record<Role, readonly NextStep[]>> = {
         'When the mail server keeps refusing a message, it waits here for you to send it again.',
       action: { label: 'Open outbox', link: '/outbox' },
       live: 'outbox',
-    },
-    {
-      key: 'organisations',
-      icon: 'apartment',
-      title: 'Organisations',
-      emptyHeading: 'No organisations waiting for you',
-      emptyMessage: 'Hospitals, lenders and proctor practices joining the marketplace appear here.',
-      action: { label: 'Open organisations', link: '/organisations' },
-    },
-    {
-      key: 'audit',
-      icon: 'history',
-      title: 'Audit',
-      emptyHeading: 'Nothing to review right now',
-      emptyMessage: 'Every change of role, access and loan is recorded for you to look back on.',
-      action: { label: 'Open audit', link: '/audit' },
     },
   ],
 };

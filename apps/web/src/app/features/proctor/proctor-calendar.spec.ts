@@ -6,38 +6,20 @@ import type { Visit } from '@evalon/contracts';
 import { SessionStore } from '../../core/session-store';
 import { todayIn } from '../../shared/iso-date';
 import { membership, person } from '../../testing/people';
+import { visit as visitFixture } from '../../testing/visits';
 import { ProctorCalendar, monthGrid, shiftMonth } from './proctor-calendar';
 
-const visit = (over: Partial<Visit>): Visit => ({
-  id: 1,
-  reference: 'PV-2027-000001',
-  kind: 'proctoring',
-  state: 'accepted',
-  hospitalId: 3,
-  hospitalName: 'Velmora Health',
-  siteId: 4,
-  siteName: 'North Campus',
-  siteTimeZone: 'America/New_York',
-  jurisdiction: 'US-MA',
-  modelId: 5,
-  modelName: 'Model R2',
-  loanId: null,
-  from: '2027-03-16',
-  to: '2027-03-17',
-  cases: 3,
-  language: null,
-  note: null,
-  proctorId: 101,
-  proctorName: 'Dr Example',
-  // A visit beyond the travel-day threshold: the matching package put one day on each side.
-  busyFrom: '2027-03-15',
-  busyTo: '2027-03-18',
-  travelDays: 2,
-  feeEstimate: null,
-  currentOffer: null,
-  createdAt: '2027-02-01T12:00:00Z',
-  ...over,
-});
+// A visit beyond the travel-day threshold: the matching package put one day on each side.
+const visit = (over: Partial<Visit>): Visit =>
+  visitFixture({
+    state: 'accepted',
+    proctorId: 101,
+    proctorName: 'Dr Example',
+    busyFrom: '2027-03-15',
+    busyTo: '2027-03-18',
+    travelDays: 2,
+    ...over,
+  });
 
 describe('monthGrid', () => {
   it('lays March 2027 out in Monday-first weeks with travel days around the case days', () => {

@@ -5,37 +5,11 @@ import { MatTableHarness } from '@angular/material/table/testing';
 import { TestBed } from '@angular/core/testing';
 import { provideRouter } from '@angular/router';
 import type { Visit } from '@evalon/contracts';
+import { visit as visitFixture } from '../../testing/visits';
 import { VisitList } from './visit-list';
 
-const visit = (over: Partial<Visit>): Visit => ({
-  id: 1,
-  reference: 'PV-2027-000001',
-  kind: 'proctoring',
-  state: 'offered',
-  hospitalId: 3,
-  hospitalName: 'Invented Hospital',
-  siteId: 4,
-  siteName: 'North Campus',
-  siteTimeZone: 'America/New_York',
-  jurisdiction: 'US-MA',
-  modelId: 5,
-  modelName: 'Model R2',
-  loanId: null,
-  from: '2027-03-16',
-  to: '2027-03-17',
-  cases: 3,
-  language: null,
-  note: null,
-  proctorId: null,
-  proctorName: null,
-  busyFrom: null,
-  busyTo: null,
-  travelDays: null,
-  feeEstimate: null,
-  currentOffer: null,
-  createdAt: '2027-02-01T12:00:00Z',
-  ...over,
-});
+const visit = (over: Partial<Visit>): Visit =>
+  visitFixture({ hospitalName: 'Invented Hospital', ...over });
 
 describe('VisitList', () => {
   it('lists the hospital’s visits with who holds or accepted each', async () => {
