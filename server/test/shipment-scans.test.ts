@@ -183,3 +183,58 @@ describe('packing by scans', () => {
     expect(await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [leg.id])).toBe(11);
   });
 });
+
+describe('who works the lender side', () => {
+  it('the fleet manager reads the board and the shipment; only the coordinator packs', async () => {
+    const w = await kit.world();
+    const { modelId, fibre } = await kit.modelWithPackingList(w.lender.id);
+    const unit = await makeUnit(t.dataSource, modelId, w.lender.depotId);
+    const loan = await kit.confirmedLoan(w, [unit]);
+    const [leg] = await kit.legsOf(loan.id);
+    // A year on: the GS1 two-digit year (AI 17 YYMMDD) is read within ±50 years of today.
+    const [{ use_to: lastCaseDay }] = await t.dataSource.query(
+      'SELECT CAST(use_to AS CHAR) AS use_to FROM loans WHERE id = ?',
+      [loan.id],
+    );
+    const laterThanUse = addCalendarDays(lastCaseDay, 400);
+
+    // Read: both lender roles see the leg on the board and open it.
+    for (const person of [w.fleet, w.coordinator]) {
+      const list = await person.agent.get(`/api/shipments?loanId=${loan.id}`).expect(200);
+      expect(list.body.shipments.map((s: { id: number }) => s.id)).toEqual([leg.id]);
+    }
+    const asFleet = (await w.fleet.agent.get(`/api/shipments/${leg.id}`).expect(200)).body;
+    const asCoordinator = (await w.coordinator.agent.get(`/api/shipments/${leg.id}`).expect(200))
+      .body;
+    // Work: the page offers the steps to the coordinator only.
+    expect(asFleet.shipment.actions).toEqual([]);
+    expect(asCoordinator.shipment.actions).toEqual(expect.arrayContaining(['scan', 'pack']));
+
+    const scansBefore = await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [
+      leg.id,
+    ]);
+    const refused = await kit
+      .post(w.fleet, `/api/shipments/${leg.id}/scans`, {
+        raw: buildElementString({ gtin: fibre, lot: 'L1', expiry: laterThanUse }),
+      })
+      .expect(403);
+    expect(refused.body.error.message).toMatch(/coordinators/);
+    await kit
+      .post(w.fleet, `/api/shipments/${leg.id}/manual-ticks`, {
+        itemId: asFleet.shipment.checklist[0].id,
+        reason: 'Label torn',
+      })
+      .expect(403);
+    await kit.post(w.fleet, `/api/shipments/${leg.id}/pack`).expect(403);
+    // Nothing was written by the refused steps.
+    expect(await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [leg.id])).toBe(
+      scansBefore,
+    );
+    // The same scan from the coordinator ticks the line.
+    await kit
+      .post(w.coordinator, `/api/shipments/${leg.id}/scans`, {
+        raw: buildElementString({ gtin: fibre, lot: 'L1', expiry: laterThanUse }),
+      })
+      .expect(201);
+  });
+});

@@ -5,7 +5,7 @@ import { bumpBookingVersion, insertHolds, lockUnits } from '../../catalog';
 import { applyLoanTransition, canSeeLoan, lockLoan } from '../../loans';
 import { settleDeposit } from '../../payments';
 import { lockLoanShipments, updateShipment } from '../data-access/shipment-repository';
-import { rolesOn } from './access';
+import { lenderOnly, rolesOn } from './access';
 import type { ShipmentsDeps } from './deps';
 import { recordState } from './history';
 
@@ -26,12 +26,7 @@ function requireLender(auth: AuthContext, loan: { lenderId: number; hospitalId: 
   if (!loan || !canSeeLoan(auth, loan)) {
     throw AppError.notFound('loan_not_found', 'There is no such loan.');
   }
-  if (!rolesOn(auth, loan).lender) {
-    throw AppError.forbidden(
-      'forbidden',
-      'Only the lender’s coordinators and fleet managers can do this.',
-    );
-  }
+  if (!rolesOn(auth, loan).lender) throw lenderOnly();
 }
 
 /**

@@ -90,6 +90,7 @@ describe('Shell', () => {
     expect(navigate).toHaveBeenCalledWith('/');
     expect(await navLabels()).toEqual([
       'Home',
+      'Shipments',
       'Catalog',
       'Approvals',
       'Credit agreements',
