@@ -140,8 +140,48 @@ export const shipmentSummary = z
   .meta({ id: 'ShipmentSummary' });
 export type ShipmentSummary = z.infer<typeof shipmentSummary>;
 
+/** Limits of shipment photos: size per file, files per receipt and per inspection finding. */
+export const shipmentPhotoLimits = {
+  /** Largest photo, in bytes (5 MB, as for model photos). */
+  maxBytes: 5 * 1024 * 1024,
+  /** Photos one receipt may carry. */
+  perReceipt: 8,
+  /** Photos one inspection finding may carry. */
+  perFinding: 4,
+  /** Photos waiting on a return leg for the inspection to claim them. */
+  pendingPerReturn: 24,
+} as const;
+
+/**
+ * A photo on a shipment: taken by the hospital on receipt (outbound leg) or by the depot for an
+ * inspection finding (return leg; `findingId` once the inspection is recorded).
+ */
+export const shipmentPhoto = z
+  .object({
+    id: z.number(),
+    kind: z.enum(['receipt', 'finding']),
+    findingId: z.number().nullable(),
+    /** The finding's category and note, for the caption. */
+    caption: z.string().nullable(),
+    contentType: z.enum(['image/jpeg', 'image/png', 'image/webp']),
+    sizeBytes: z.number(),
+    createdAt: z.string(),
+    by: z.string().nullable(),
+  })
+  .meta({ id: 'ShipmentPhoto' });
+export type ShipmentPhoto = z.infer<typeof shipmentPhoto>;
+
+export const shipmentPhotoResponse = z
+  .object({ photo: shipmentPhoto })
+  .meta({ id: 'ShipmentPhotoResponse' });
+
+export const shipmentPhotoParams = z
+  .object({ id, photoId: id })
+  .meta({ id: 'ShipmentPhotoParams' });
+
 export const shipmentDetail = shipmentSummary
   .extend({
+    photos: z.array(shipmentPhoto),
     sscc: z.string().nullable(),
     service: z.string().nullable(),
     outboundId: z.number().nullable(),
@@ -253,6 +293,8 @@ export const inspectionRequest = z
           charge: z.number().int().min(0).max(100_000_000).default(0),
           /** Whether the unit goes to maintenance before its next loan. */
           needsRepair: z.boolean().default(false),
+          /** Photos uploaded to the return leg for this finding (each used once). */
+          photoIds: z.array(id).max(shipmentPhotoLimits.perFinding).default([]),
         }),
       )
       .max(100),

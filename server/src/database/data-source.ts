@@ -30,6 +30,7 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
  */
 export const appTables = [
   'loan_settlements',
+  'shipment_photos',
   'inspection_findings',
   'shipment_alerts',
   'shipment_events',

@@ -49,7 +49,10 @@ export async function stageDemoShipments(
   );
   await ensureOutboundShipments(m, loanId, now);
   let state: string = 'confirmed';
-  const step = async (action: 'ship' | 'deliver' | 'start_return' | 'receive_return', to: string) => {
+  const step = async (
+    action: 'ship' | 'deliver' | 'start_return' | 'receive_return',
+    to: string,
+  ) => {
     await applyLoanTransition(
       m,
       { id: loanId, state: state as never },

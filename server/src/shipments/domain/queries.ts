@@ -11,6 +11,8 @@ import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { hospitalsOf, lendersOf } from '../../catalog';
 import { findEvents, findItems, findScans } from '../data-access/shipment-repository';
+import { findPhotos } from '../data-access/photo-repository';
+import { toShipmentPhoto } from './photos';
 import { rolesOn } from './access';
 import { isUnderway } from './states';
 
@@ -179,6 +181,7 @@ export async function getShipment(
   const items = await findItems(m, id);
   const scans = await findScans(m, id);
   const events = await findEvents(m, id);
+  const photos = await findPhotos(m, id);
   const decontamination = json<{ method: string; by: string; at: string }>(r.decontamination);
   const receipt = json<{ allPresent: boolean; missing: string[]; notes: string; at: string }>(
     r.receipt,
@@ -250,6 +253,7 @@ export async function getShipment(
       occurredAt: (e.occurred_at as Date).toISOString(),
       by: (e.actor_name as string) ?? null,
     })),
+    photos: photos.map(toShipmentPhoto),
     receipt,
     decontamination,
     actions,
