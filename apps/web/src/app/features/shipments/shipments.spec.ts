@@ -296,7 +296,7 @@ describe('shipment photos on the page', () => {
     await settle(fixture);
     await (await loader.getHarness(MatButtonHarness.with({ text: /Add finding/ }))).click();
     const input = fixture.nativeElement.querySelector(
-      'input[aria-label="Photos for finding 1"]',
+      'input[aria-label="Inspection photo files, row 1"]',
     ) as HTMLInputElement;
     choose(input, [file('crack.jpg', 'image/jpeg', 20)]);
     http
@@ -304,7 +304,7 @@ describe('shipment photos on the page', () => {
       .flush({ photo: photo(9, { kind: 'finding', contentType: 'image/jpeg' }) });
     await settle(fixture);
     expect(
-      fixture.nativeElement.querySelector('ul[aria-label="Photos of finding 1"] img')?.src,
+      fixture.nativeElement.querySelector('ul[aria-label="Inspection photos, row 1"] img')?.src,
     ).toContain('/api/shipments/7/photos/9');
 
     await (await loader.getHarness(MatButtonHarness.with({ text: /Record inspection/ }))).click();
