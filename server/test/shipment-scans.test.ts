@@ -2,11 +2,13 @@
 // Outside references (/work/shared/reference-values.md, "GS1 barcodes and UDI"): the barcode
 // writer's wiki example element string and its fields; the GS1 mod-10 check digit; the SSCC
 // structure (GS1 General Specifications, AI 00) with the derived example 106141411234567897.
-import { buildElementString } from '@evalon/gs1';
+import { buildElementString, parseElementString } from '@evalon/gs1';
+import { BarcodeFormat } from '@zxing/library';
 import { addCalendarDays } from '@evalon/scheduling';
 import { startTestApp, type TestApp } from './helpers/app';
 import { countRows, makeUnit } from './helpers/catalog';
 import { listen, registerWebhook, startPaymentsFake, type RunningFake } from './helpers/payments';
+import { pdfImages, readBarcode } from './helpers/pdf-images';
 import { shipmentKit } from './helpers/shipments';
 
 jest.setTimeout(90_000);
@@ -180,6 +182,20 @@ describe('packing by scans', () => {
     const pdf = Buffer.isBuffer(slip.body) ? slip.body : Buffer.from(slip.text ?? '', 'binary');
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
     expect(pdf.length).toBeGreaterThan(2_000);
+
+    // The barcodes as the slip carries them: cut out of the PDF and read by ZXing. GS1 General
+    // Specifications: AI 00 is the SSCC, 18 digits, first in a GS1-128 behind FNC1 (which a
+    // reader reports as the symbology identifier ]C1, ISO/IEC 15424, from memory); GS1
+    // DataMatrix starts with FNC1 too, which ZXing writes as GS.
+    const images = pdfImages(pdf);
+    expect(images).toHaveLength(2);
+    const linear = images.map((i) => readBarcode(i, BarcodeFormat.CODE_128)).filter(Boolean);
+    const matrix = images.map((i) => readBarcode(i, BarcodeFormat.DATA_MATRIX)).filter(Boolean);
+    expect(linear).toEqual([`]C1${buildElementString({ sscc: '106141411234567897' })}`]);
+    expect(matrix).toEqual([`\u001d00106141411234567897`]);
+    for (const read of [...linear, ...matrix]) {
+      expect(parseElementString(read!).sscc).toBe(packed.body.shipment.sscc);
+    }
     expect(await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [leg.id])).toBe(11);
   });
 });
