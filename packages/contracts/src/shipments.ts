@@ -128,7 +128,10 @@ export const shipmentSummary = z
     carrier: z.string().nullable(),
     trackingNumber: z.string().nullable(),
     carrierStatus: z.string().nullable(),
-    /** The loan's deadline for this leg (outbound `deliverBy`, return `returnShipBy`). */
+    /**
+     * The loan's deadline for this leg: outbound `deliverBy` (campus calendar); a return waiting
+     * at the campus `returnShipBy` (campus); a return on its way `backAtDepot` (depot calendar).
+     */
     dueBy: isoDate,
     shipBy: isoDate,
     eta: isoDate.nullable(),

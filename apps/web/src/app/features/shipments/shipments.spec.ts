@@ -11,7 +11,7 @@ import { MatTableHarness } from '@angular/material/table/testing';
 import { provideRouter } from '@angular/router';
 import type { ShipmentDetail, ShipmentSummary } from '@evalon/contracts';
 import { errorInterceptor } from '../../core/interceptors';
-import { taskFor } from './loan-shipments';
+import { onTheWay, taskFor } from './loan-shipments';
 import { ShipmentBoard } from './shipment-board';
 import { ShipmentPage, historyOf, photoProblem } from './shipment-page';
 
@@ -314,6 +314,40 @@ describe('shipment photos on the page', () => {
     ]);
     inspection.flush(null);
     http.expectOne('/api/shipments/7').flush({ shipment: detail() });
+    http.verify();
+  });
+});
+
+describe('a return on its way', () => {
+  it('shows the depot’s deadline and the expected arrival there', async () => {
+    const http = setup();
+    const fixture = TestBed.createComponent(ShipmentPage);
+    fixture.componentRef.setInput('id', '8');
+    await fixture.whenStable();
+    http.expectOne('/api/shipments/8').flush({
+      shipment: detail({
+        id: 8,
+        direction: 'return',
+        state: 'in_transit',
+        shipBy: '2027-01-15',
+        dueBy: '2027-01-20',
+        eta: '2027-01-22',
+        risk: 'at_risk',
+        actions: [],
+      }),
+    });
+    await settle(fixture);
+    const facts = Array.from(
+      fixture.nativeElement.querySelectorAll('.facts dt') as NodeListOf<HTMLElement>,
+    ).map((d) => [d.textContent!.trim(), d.nextElementSibling!.textContent!.trim()]);
+    expect(facts.slice(0, 4)).toEqual([
+      ['Ship back by', 'Fri, Jan 15, 2027'],
+      ['Back at depot by', 'Wed, Jan 20, 2027 (depot calendar)'],
+      ['Expected at the depot', 'Fri, Jan 22, 2027'],
+      ['Risk', 'At risk'],
+    ]);
+    expect(onTheWay(summary({ direction: 'return', state: 'handed_over' }))).toBe(true);
+    expect(onTheWay(summary({ direction: 'return', state: 'received' }))).toBe(false);
     http.verify();
   });
 });
