@@ -424,3 +424,37 @@ describe('return legs on their way back', () => {
     expect(still.body.shipments).toEqual([]);
   });
 });
+
+describe('GET /api/shipments/in-transit', () => {
+  it('lists the lender’s legs with the carrier, depot to campus, for lender people only', async () => {
+    const w = await world();
+    const a = await modelWithPackingList(w.lender.id);
+    const unit = await makeUnit(t.dataSource, a.modelId, w.lender.depotId);
+    const loan = await confirmedLoan(w, [unit]);
+    const [out] = await legsOf(loan.id);
+    const mine = async (c: typeof w.coordinator) =>
+      (await c.agent.get('/api/shipments/in-transit').expect(200)).body.shipments.filter(
+        (s: { id: number }) => s.id === out.id,
+      );
+    // Waiting to be packed: not on the map.
+    expect(await mine(w.coordinator)).toEqual([]);
+    await packed(out.id);
+    await post(w.coordinator, `/api/shipments/${out.id}/hand-over`, {}).expect(200);
+
+    const [entry] = await mine(w.coordinator);
+    // The coordinates the test sites were made with (helpers/catalog places).
+    expect(entry).toMatchObject({
+      direction: 'outbound',
+      state: 'handed_over',
+      risk: 'on_time',
+      from: { lat: places.eastDepot.latitude, lng: places.eastDepot.longitude },
+      to: { lat: places.bostonCampus.latitude, lng: places.bostonCampus.longitude },
+    });
+    expect(await mine(w.fleet)).toHaveLength(1);
+    // Hospital people have their loan page; another lender sees nothing of it.
+    const refused = await w.buyer.agent.get('/api/shipments/in-transit').expect(403);
+    expect(refused.body.error.message).toMatch(/coordinators and fleet managers/);
+    const other = await world();
+    expect(await mine(other.coordinator)).toEqual([]);
+  });
+});

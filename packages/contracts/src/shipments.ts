@@ -207,6 +207,37 @@ export const shipmentDetail = shipmentSummary
   .meta({ id: 'ShipmentDetail' });
 export type ShipmentDetail = z.infer<typeof shipmentDetail>;
 
+/** A place on the map of shipments in transit. */
+const mapPlace = z.object({ name: z.string(), lat: z.number(), lng: z.number() });
+
+/** One leg with the carrier, from where to where, for the map of shipments in transit. */
+export const shipmentMapEntry = z
+  .object({
+    id: z.number(),
+    reference: z.string(),
+    loanReference: z.string(),
+    hospitalName: z.string(),
+    direction: shipmentDirection,
+    state: shipmentState,
+    trackingNumber: z.string().nullable(),
+    dueBy: isoDate,
+    eta: isoDate.nullable(),
+    risk: shipmentRisk,
+    from: mapPlace,
+    to: mapPlace,
+  })
+  .meta({ id: 'ShipmentMapEntry' });
+export type ShipmentMapEntry = z.infer<typeof shipmentMapEntry>;
+
+export const shipmentMapResponse = z
+  .object({
+    shipments: z.array(shipmentMapEntry),
+    /** Legs in transit in all; the map draws at most the first 300. */
+    total: z.number(),
+  })
+  .meta({ id: 'ShipmentMapResponse' });
+export type ShipmentMapResponse = z.infer<typeof shipmentMapResponse>;
+
 export const shipmentParams = z.object({ id }).meta({ id: 'ShipmentParams' });
 
 export const shipmentSorts = ['due', '-due', 'updated', '-updated', 'reference', 'state'] as const;

@@ -21,6 +21,7 @@ import {
   shipmentResponse,
   shipmentPhotoParams,
   shipmentPhotoResponse,
+  shipmentMapResponse,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { AppError } from '../../errors';
@@ -32,6 +33,7 @@ import { getShipment, listShipments } from '../domain/queries';
 import { handleTrackingEvent } from '../domain/tracking';
 import { packingSlip } from '../domain/packing-slip';
 import { addShipmentPhoto, readShipmentPhoto } from '../domain/photos';
+import { shipmentsInTransit } from '../domain/transit-map';
 import { photoUpload } from './photo-upload';
 import {
   getShipmentSettings,
@@ -73,6 +75,26 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
     },
     async ({ req, res, query }) => {
       res.json(await listShipments(deps.dataSource.manager, currentAuth(req), query, deps.now()));
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/in-transit',
+      summary: 'Legs with the carrier now, from where to where, for the map',
+      description:
+        'Handed over, in transit or with a carrier exception, both directions, with the depot’s ' +
+        'and the campus’s coordinates and the risk. Lender people (and the platform admin); ' +
+        'at most 300, by deadline, with `total` saying how many there are.',
+      access: { authenticated: true },
+      responses: {
+        200: { description: 'The legs.', schema: shipmentMapResponse },
+        403: error('Not a lender’s coordinator or fleet manager.'),
+      },
+    },
+    async ({ req, res }) => {
+      res.json(await shipmentsInTransit(deps.dataSource.manager, currentAuth(req), deps.now()));
     },
   );
 
