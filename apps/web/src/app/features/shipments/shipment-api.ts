@@ -4,6 +4,7 @@ import type {
   ShipmentDetail,
   ShipmentDirection,
   ShipmentList,
+  ShipmentMapResponse,
   ShipmentPhoto,
   ShipmentState,
 } from '@evalon/contracts';
@@ -39,6 +40,11 @@ export class ShipmentApi {
       if (value !== null && value !== undefined && value !== '') params = params.set(key, value);
     }
     return this.http.get<ShipmentList>('/api/shipments', { params });
+  }
+
+  /** The lender's legs with the carrier now, with where they run between (the map). */
+  inTransit(): Observable<ShipmentMapResponse> {
+    return this.http.get<ShipmentMapResponse>('/api/shipments/in-transit');
   }
 
   get(id: number): Observable<ShipmentDetail> {
