@@ -184,6 +184,22 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
     /WP\d{10}/,
   )![0];
 
+  // With the carrier: on the coordinator's map, a great-circle route and a line in the list.
+  await c.goto('/shipments');
+  await c.getByRole('link', { name: 'Map of shipments in transit' }).click();
+  const listed = c
+    .getByRole('list', { name: 'Shipments in transit' })
+    .getByRole('listitem')
+    .filter({ hasText: `${loan.reference}-O1` });
+  await expect(listed).toContainText('Outbound:');
+  await listed.getByRole('button', { name: `Show ${loan.reference}-O1 on the map` }).click();
+  await expect(listed.getByRole('button')).toHaveAttribute('aria-pressed', 'true');
+  // 31 dots between the two ends, plus the ends (the stand-in's advanced-marker elements).
+  await expect
+    .poll(() => c.locator(`[title^="${loan.reference}-O1:"]`).count(), { timeout: 15_000 })
+    .toBe(31);
+  await c.goBack();
+
   // The stand-in delivers.
   await carrier(`/shipments/${tracking}/advance`, { to: 'delivered' });
   await carrier('/webhooks/flush', {});

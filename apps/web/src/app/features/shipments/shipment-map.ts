@@ -6,7 +6,12 @@ import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { RouterLink } from '@angular/router';
-import { shipmentStateLabels, type ShipmentMapEntry, type ShipmentRisk } from '@evalon/contracts';
+import {
+  shipmentRisks,
+  shipmentStateLabels,
+  type ShipmentMapEntry,
+  type ShipmentRisk,
+} from '@evalon/contracts';
 import { messageOf } from '../../core/api-error';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { DayPipe } from '../../shared/formats';
@@ -72,6 +77,7 @@ export class ShipmentMap {
   protected readonly stateLabels = shipmentStateLabels;
   protected readonly riskLabels = riskLabels;
   protected readonly riskColour = riskColour;
+  protected readonly risks = shipmentRisks;
   protected readonly legs = signal<ShipmentMapEntry[] | null>(null);
   protected readonly total = signal(0);
   protected readonly error = signal<string | null>(null);
