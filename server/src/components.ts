@@ -2,6 +2,7 @@ import type { AppComponent } from './app-services';
 import { auditComponent } from './audit';
 import { availabilityComponent } from './availability';
 import { catalogComponent } from './catalog';
+import { evidenceComponent } from './evidence';
 import { identityComponent } from './identity';
 import { loansComponent } from './loans';
 import { mapsComponent } from './maps';
@@ -33,4 +34,5 @@ export const serverComponents: readonly AppComponent[] = [
   proctorsComponent,
   visitsComponent,
   shipmentsComponent,
+  evidenceComponent,
 ];

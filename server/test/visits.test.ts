@@ -1,10 +1,7 @@
 import { addCalendarDays } from '@evalon/scheduling';
 import { createLogger } from '../src/logger';
 import { createVisitDeps, runOfferDeadlines } from '../src/visits';
-import {
-  credentialNotifierFromConfig,
-  visitNotifierFromConfig,
-} from '../src/notifications';
+import { credentialNotifierFromConfig, visitNotifierFromConfig } from '../src/notifications';
 import { runCredentialWarnings } from '../src/proctors';
 import { startTestApp, type TestApp } from './helpers/app';
 import {
@@ -21,13 +18,28 @@ import { signedInClient, type Client } from './helpers/http';
 import { homes, makeProctor, setSubdivision, type TestProctor } from './helpers/proctors';
 
 let t: TestApp;
+/**
+ * The same app and database with its clock set to a chosen instant (`clockAt`): cases are
+ * recorded only on a visit's days, so steps taken "on the day" go through this one.
+ */
+let onTheDay: TestApp;
+let clockAt = new Date();
 beforeAll(async () => {
   t = await startTestApp({}, { outboxWorker: false });
+  onTheDay = await startTestApp({}, { outboxWorker: false, now: () => clockAt });
 });
-afterAll(() => t.close());
+afterAll(async () => {
+  await onTheDay.close();
+  await t.close();
+});
 
 const sign = (person: { email: string; password: string }) =>
   signedInClient(t.app, person.email, person.password);
+/** Signed in to the app whose clock reads `clockAt`. */
+const signOnTheDay = (person: { email: string; password: string }) =>
+  signedInClient(onTheDay.app, person.email, person.password);
+/** 10:00 in Boston (UTC−5 in winter, −4 in summer: 14:00Z is 09:00 or 10:00 there) on `date`. */
+const bostonMorning = (date: string) => new Date(`${date}T14:00:00Z`);
 const post = (client: Client, path: string, body: object = {}) =>
   client.agent.post(path).set('X-XSRF-TOKEN', client.csrf).send(body);
 
@@ -168,6 +180,73 @@ describe('proctor profile, credentials and availability', () => {
       const weekday = new Date(`${d.date}T12:00:00Z`).getUTCDay();
       expect(d.available).toBe([1, 3, 5].includes(weekday));
     }
+  });
+
+  it('availability exceptions: days out, one-off extra days, blackouts; contradictions are named', async () => {
+    const p = await makeProctor(t.dataSource);
+    const client = await sign(p);
+    const put = (body: object) =>
+      client.agent.put('/api/proctors/me/availability').set('X-XSRF-TOKEN', client.csrf).send(body);
+    const rule = 'DTSTART;TZID=America/New_York:20260105T080000\nRRULE:FREQ=WEEKLY;BYDAY=MO,WE,FR';
+    // Days two to three weeks ahead (preview days are in the proctor's zone; whole days apart).
+    const today = (await client.agent.get('/api/proctors/me/availability/preview').expect(200)).body
+      .days[0].date as string;
+    const next = (weekday: number, after: number) => {
+      let d = addCalendarDays(today, after);
+      while (new Date(`${d}T12:00:00Z`).getUTCDay() !== weekday) d = addCalendarDays(d, 1);
+      return d;
+    };
+    const saturday = next(6, 14);
+    const monday = next(1, 14);
+    const friday = next(5, 21);
+
+    const contradictions = await put({
+      rules: [rule],
+      exceptions: [
+        { kind: 'extra', date: saturday },
+        { kind: 'date', date: saturday },
+        { kind: 'extra', date: friday },
+      ],
+      blackouts: [{ from: friday, to: friday }],
+    });
+    expect(contradictions.status).toBe(422);
+    expect(contradictions.body.error.details.fieldErrors).toEqual({
+      'exceptions.1.date': [`${saturday} is both taken out and added; keep one of the two.`],
+      'exceptions.2.date': [
+        `${friday} falls in blackout 1 (${friday} to ${friday}); remove one of them.`,
+      ],
+    });
+
+    await put({
+      rules: [rule],
+      exceptions: [
+        { kind: 'extra', date: saturday },
+        { kind: 'date', date: monday },
+      ],
+      blackouts: [{ from: friday, to: friday }],
+    }).expect(200);
+    const days = (await client.agent.get('/api/proctors/me/availability/preview').expect(200)).body
+      .days as { date: string; available: boolean; why: string | null }[];
+    const on = (date: string) => days.find((d) => d.date === date)!;
+    expect(on(saturday)).toMatchObject({ available: true });
+    expect(on(monday)).toMatchObject({ available: false, why: 'exception' });
+    expect(on(friday)).toMatchObject({ available: false, why: 'blackout' });
+    expect(on(addCalendarDays(saturday, 7))).toMatchObject({ available: false });
+
+    // One calendar month for the proctor's calendar: February 2028 has 29 days (a leap year,
+    // Gregorian rule: divisible by 4 and not a century); a bad month is named.
+    const feb = await client.agent
+      .get('/api/proctors/me/availability/preview?month=2028-02')
+      .expect(200);
+    expect(feb.body.days.map((d: { date: string }) => d.date)).toEqual(
+      Array.from({ length: 29 }, (_, i) => `2028-02-${String(i + 1).padStart(2, '0')}`),
+    );
+    // 2 February 2028 is a Wednesday (derived): in the pattern.
+    expect(feb.body.days[1]).toMatchObject({ date: '2028-02-02', available: true });
+    const badMonth = await client.agent.get('/api/proctors/me/availability/preview?month=2028-13');
+    // A bad address (query) answers 400, as for every route; the message says the format.
+    expect(badMonth.status).toBe(400);
+    expect(JSON.stringify(badMonth.body.error)).toContain('YYYY-MM');
   });
 
   it('credentials: a PDF is stored and downloadable by its owner only; other files are refused', async () => {
@@ -545,6 +624,7 @@ describe('correctness under contention', () => {
 });
 
 describe('cases and sign-off', () => {
+  /** A visit accepted today; `proctor` acts on the first visit day (the clock of `onTheDay`). */
   async function acceptedVisit(): Promise<{
     w: World;
     p: TestProctor;
@@ -558,9 +638,9 @@ describe('cases and sign-off', () => {
       '/api/visits',
       visitBody(w, { proctorIds: [p.userId] }),
     ).expect(201);
-    const proctor = await sign(p);
-    await post(proctor, `/api/visits/${created.body.visit.id}/accept`).expect(200);
-    return { w, p, proctor, id: created.body.visit.id };
+    await post(await sign(p), `/api/visits/${created.body.visit.id}/accept`).expect(200);
+    clockAt = bostonMorning(w.from);
+    return { w, p, proctor: await signOnTheDay(p), id: created.body.visit.id };
   }
   const ratings = {
     setup: 4,
@@ -688,6 +768,417 @@ describe('cases and sign-off', () => {
 
     const again = await post(proctor, `/api/visits/${id}/sign-offs`, { traineeUserId: trainee });
     expect(again.status).toBe(409);
+  });
+});
+
+describe('a proctor withdraws from an accepted visit', () => {
+  it('before the first day: offer withdrawn, CANCEL to them, hospital told, the next one offered', async () => {
+    const w = await world(50);
+    const first = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const second = await makeProctor(t.dataSource, { experience: { [w.modelId]: 30 } });
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [first.userId, second.userId] }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    const firstClient = await sign(first);
+    await post(firstClient, `/api/visits/${id}/accept`).expect(200);
+
+    // A reason is required, at least 10 characters; nothing changes without one.
+    const short = await post(firstClient, `/api/visits/${id}/withdraw`, { reason: 'Sorry.' });
+    expect(short.status).toBe(422);
+    expect(short.body.error.details.fieldErrors).toHaveProperty('reason');
+    // The passed-over candidate (their offer closed as skipped) is not the visit's proctor.
+    const secondClient = await sign(second);
+    expect(
+      (await post(secondClient, `/api/visits/${id}/withdraw`, { reason: 'Not my visit at all.' }))
+        .status,
+    ).toBe(403);
+    const [still] = await t.dataSource.query(
+      'SELECT state, proctor_user_id FROM visits WHERE id = ?',
+      [id],
+    );
+    expect([still.state, Number(still.proctor_user_id)]).toEqual(['accepted', first.userId]);
+
+    const reason = 'A family emergency keeps me at home that week.';
+    const res = await post(firstClient, `/api/visits/${id}/withdraw`, { reason });
+    expect(res.status).toBe(200);
+    expect(res.body.visit.state).toBe('offered');
+
+    // The hospital sees the next candidate offered, the withdrawn offer with its reason.
+    const seen = (await w.buyer.agent.get(`/api/visits/${id}`).expect(200)).body.visit;
+    expect(seen.currentOffer.proctorId).toBe(second.userId);
+    expect(seen.offers.map((o: { state: string }) => o.state)).toEqual(['withdrawn', 'offered']);
+    expect(seen.offers[0].reason).toBe(reason);
+    expect(seen.events.map((e: { kind: string }) => e.kind)).toEqual([
+      'requested',
+      'offered',
+      'accepted',
+      'withdrawn',
+      'offered',
+    ]);
+    const [row] = await t.dataSource.query(
+      'SELECT state, proctor_user_id, busy_from, invite_sequence FROM visits WHERE id = ?',
+      [id],
+    );
+    expect(row).toMatchObject({ state: 'offered', proctor_user_id: null, busy_from: null });
+    expect(Number(row.invite_sequence)).toBe(1);
+
+    // E-mail: the proctor gets the CANCEL naming only them; the requester the reason, no invite.
+    const mail = await outbox(id);
+    const withdrawn = mail.filter((m) => m.dedupe_key.includes(':withdrawn:'));
+    const toProctor = withdrawn.find(
+      (m) => (jsonColumn(m.to_addresses) as string[])[0] === first.email,
+    )!;
+    const ics = icsOf(toProctor)!;
+    // RFC 5546 §3.2.5: METHOD:CANCEL, STATUS:CANCELLED, same UID, SEQUENCE above the REQUEST's.
+    expect(ics).toMatch(/METHOD:CANCEL/);
+    expect(ics).toMatch(/STATUS:CANCELLED/);
+    expect(ics).toMatch(/SEQUENCE:1/);
+    expect(ics).toContain(`UID:visit-${id}@`);
+    expect(ics.match(/^ATTENDEE/gm)).toHaveLength(1);
+    const toBuyer = withdrawn.find(
+      (m) => (jsonColumn(m.to_addresses) as string[])[0] === w.hospital.buyer.email,
+    )!;
+    expect(toBuyer.subject).toMatch(/withdrew/);
+    expect(toBuyer.text).toContain(reason);
+    expect(icsOf(toBuyer)).toBeNull();
+    expect(mail.some((m) => m.dedupe_key.startsWith(`visit:${id}:offered:${second.userId}:`))).toBe(
+      true,
+    );
+    // In-app notice to the requester; an audit event in the hospital's trail.
+    const notices = await t.dataSource.query(
+      'SELECT title FROM notifications WHERE user_id = ? AND kind = ?',
+      [w.hospital.buyer.userId, 'visit.withdrawn'],
+    );
+    expect(notices).toHaveLength(1);
+    const audit = await t.dataSource.query(
+      'SELECT actor_user_id, organisation_id, detail FROM audit_events WHERE action = ? AND subject = ?',
+      ['visit.proctor_withdrew', `visit:${id}`],
+    );
+    expect(audit).toHaveLength(1);
+    expect(Number(audit[0].organisation_id)).toBe(w.hospital.id);
+    expect(Number(audit[0].actor_user_id)).toBe(first.userId);
+
+    // The next proctor accepts: their REQUEST supersedes the CANCEL (SEQUENCE 2, RFC 5545
+    // §3.8.7.4), and the requester hears of this acceptance too.
+    await post(secondClient, `/api/visits/${id}/accept`).expect(200);
+    const accepted = (await outbox(id)).filter((m) =>
+      m.dedupe_key.startsWith(`visit:${id}:accepted:${second.userId}:`),
+    );
+    expect(accepted.map((m) => (jsonColumn(m.to_addresses) as string[])[0]).sort()).toEqual(
+      [w.hospital.buyer.email, second.email].sort(),
+    );
+    for (const m of accepted) expect(icsOf(m)).toMatch(/SEQUENCE:2/);
+    // The first proctor is no longer the visit's: a second withdrawal is refused.
+    expect((await post(firstClient, `/api/visits/${id}/withdraw`, { reason })).status).toBe(403);
+  });
+
+  it('with nobody left the visit is unfilled; from the first visit day on it is refused (409)', async () => {
+    const w = await world(55);
+    const only = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const a = await post(w.buyer, '/api/visits', visitBody(w, { proctorIds: [only.userId] }));
+    const id = a.body.visit.id as number;
+    await post(await sign(only), `/api/visits/${id}/accept`).expect(200);
+
+    // On the first visit day (Boston morning) the withdrawal is refused and nothing changes.
+    clockAt = bostonMorning(w.from);
+    const onDay = await post(await signOnTheDay(only), `/api/visits/${id}/withdraw`, {
+      reason: 'My flight was cancelled this morning.',
+    });
+    expect(onDay.status).toBe(409);
+    expect(onDay.body.error.code).toBe('visit_started');
+    expect(onDay.body.error.message).toContain(`started on ${w.from}`);
+    // The evening before (23:30 in Boston, already the first day in UTC) is still before it.
+    clockAt = new Date(`${w.from}T04:30:00Z`);
+    const eve = await post(await signOnTheDay(only), `/api/visits/${id}/withdraw`, {
+      reason: 'My flight was cancelled this evening.',
+    });
+    expect(eve.status).toBe(200);
+    expect(eve.body.visit.state).toBe('unfilled');
+    const [offer] = await t.dataSource.query(
+      'SELECT state FROM visit_offers WHERE visit_id = ? AND proctor_user_id = ?',
+      [id, only.userId],
+    );
+    expect(offer.state).toBe('withdrawn');
+    expect((await outbox(id)).some((m) => /no proctor could take it/.test(m.subject))).toBe(true);
+  });
+});
+
+describe('cases only on visit days', () => {
+  it('before the first day 422 naming the day; on it 201; after cancellation 409', async () => {
+    const w = await world(40);
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [p.userId] }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    await post(await sign(p), `/api/visits/${id}/accept`).expect(200);
+    const caseBody = (caseNumber: number) => ({
+      caseNumber,
+      traineeUserId: w.hospital.clinician.userId,
+      traineeRole: 'observed',
+      ratings: {
+        setup: 3,
+        docking: 3,
+        instrument_handling: 3,
+        troubleshooting: 3,
+        team_communication: 3,
+      },
+    });
+
+    // The day before the first visit day, at 18:00 in Boston.
+    clockAt = new Date(`${addCalendarDays(w.from, -1)}T23:00:00Z`);
+    const early = await post(await signOnTheDay(p), `/api/visits/${id}/cases`, caseBody(1));
+    expect(early.status).toBe(422);
+    expect(early.body.error.code).toBe('before_visit');
+    expect(early.body.error.message).toBe(
+      `Cases can be recorded from ${w.from}, the visit’s first day (America/New_York).`,
+    );
+    expect(await countRows(t.dataSource, 'visit_cases', 'visit_id = ?', [id])).toBe(0);
+
+    clockAt = bostonMorning(w.from);
+    const onDay = await signOnTheDay(p);
+    await post(onDay, `/api/visits/${id}/cases`, caseBody(1)).expect(201);
+    await post(w.buyer, `/api/visits/${id}/cancel`, { reason: 'The loan was called off.' }).expect(
+      200,
+    );
+    const after = await post(onDay, `/api/visits/${id}/cases`, caseBody(2));
+    expect(after.status).toBe(409);
+    expect(after.body.error.code).toBe('visit_cancelled');
+    expect(await countRows(t.dataSource, 'visit_cases', 'visit_id = ?', [id])).toBe(1);
+  });
+});
+
+describe('a clinician’s training record', () => {
+  it('shows only their own cases, the count against the threshold and the sign-off PDF', async () => {
+    const w = await world(42);
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const peer = await makePerson(t.dataSource, w.hospital.id, 'clinician');
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [p.userId], cases: 5 }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    await post(await sign(p), `/api/visits/${id}/accept`).expect(200);
+    const me = w.hospital.clinician;
+    const clinician = await sign(me);
+
+    // No cases yet: an empty record, not an error.
+    const empty = await clinician.agent.get('/api/visits/training-record').expect(200);
+    expect(empty.body).toEqual({
+      trainee: { userId: me.userId, name: expect.any(String) },
+      progress: [],
+      visits: [],
+    });
+
+    clockAt = bostonMorning(w.from);
+    const proctor = await signOnTheDay(p);
+    const record = (caseNumber: number, traineeUserId: number, traineeRole: string) =>
+      post(proctor, `/api/visits/${id}/cases`, {
+        caseNumber,
+        traineeUserId,
+        traineeRole,
+        ratings: {
+          setup: caseNumber,
+          docking: 3,
+          instrument_handling: 4,
+          troubleshooting: 3,
+          team_communication: 5,
+        },
+      }).expect(201);
+    await record(1, me.userId, 'observed');
+    await record(2, peer.userId, 'performed_supervised');
+    await record(3, me.userId, 'performed_supervised');
+    await record(4, me.userId, 'performed_supervised');
+
+    const mid = (await clinician.agent.get('/api/visits/training-record').expect(200)).body;
+    expect(mid.visits).toHaveLength(1);
+    expect(mid.visits[0]).toMatchObject({ visitId: id, state: 'accepted', signOff: null });
+    // Only their own cases: 1, 3 and 4, never the peer's case 2.
+    expect(mid.visits[0].cases.map((c: { caseNumber: number }) => c.caseNumber)).toEqual([1, 3, 4]);
+    expect(mid.visits[0].cases[0]).toMatchObject({
+      traineeRole: 'observed',
+      ratings: { setup: 1, team_communication: 5 },
+    });
+    // Observed cases do not count; the hospital's default threshold is 3 (survey mean 3.24,
+    // reference-values.md).
+    expect(mid.progress).toEqual([
+      expect.objectContaining({
+        hospitalId: w.hospital.id,
+        modelId: w.modelId,
+        supervisedCases: 2,
+        threshold: 3,
+        signedOff: false,
+      }),
+    ]);
+
+    await record(5, me.userId, 'performed_supervised');
+    const signed = await post(proctor, `/api/visits/${id}/sign-offs`, {
+      traineeUserId: me.userId,
+    }).expect(201);
+    const after = (await clinician.agent.get('/api/visits/training-record').expect(200)).body;
+    expect(after.progress[0]).toMatchObject({ supervisedCases: 3, signedOff: true });
+    const signOff = after.visits[0].signOff;
+    expect(signOff).toMatchObject({ proctoredCases: 3, threshold: 3 });
+    expect(signOff.id).toBe(signed.body.visit.signOffs[0].id);
+    const pdf = await clinician.agent.get(signOff.pdfUrl).buffer(true);
+    expect(pdf.status).toBe(200);
+    expect(pdf.headers['content-type']).toBe('application/pdf');
+
+    // The peer sees their own single case; buyers and proctors have no training record.
+    const peerRecord = (await (await sign(peer)).agent.get('/api/visits/training-record')).body;
+    expect(peerRecord.visits[0].cases.map((c: { caseNumber: number }) => c.caseNumber)).toEqual([
+      2,
+    ]);
+    expect(peerRecord.progress[0]).toMatchObject({ supervisedCases: 1, signedOff: false });
+    await w.buyer.agent.get('/api/visits/training-record').expect(403);
+    await (await sign(p)).agent.get('/api/visits/training-record').expect(403);
+  });
+});
+
+describe('visit settings', () => {
+  it('a lender sets a model’s minimum supervised cases; matching uses it; bad values are refused', async () => {
+    const lender = await makeLender(t.dataSource, places.eastDepot);
+    const other = await makeLender(t.dataSource, places.eastDepot);
+    const hospital = await makeHospital(t.dataSource, places.bostonCampus);
+    await setSubdivision(t.dataSource, hospital.campusId, 'US-MA');
+    const modelId = await makeModel(t.dataSource, lender.id);
+    const p = await makeProctor(t.dataSource, { experience: { [modelId]: 15 } });
+    const fleet = await sign(lender.fleet);
+    const buyer = await sign(hospital.buyer);
+    const from = mondayAfter(65);
+    const candidate = async () => {
+      const res = await buyer.agent
+        .get('/api/visits/candidates')
+        .query({ siteId: hospital.campusId, modelId, from, to: addCalendarDays(from, 1) })
+        .expect(200);
+      return (
+        res.body.items as { proctorId: number; eligible: boolean; exclusions: string[] }[]
+      ).find((c) => c.proctorId === p.userId)!;
+    };
+    // Default 20 (product assumption, reference-values.md): 15 cases are not enough.
+    const before = await candidate();
+    expect(before.eligible).toBe(false);
+    expect(before.exclusions.join(' ')).toMatch(/20/);
+    const settings = await fleet.agent.get(`/api/visits/settings/lenders/${lender.id}`).expect(200);
+    expect(settings.body.lenderDefault).toBe(20);
+    expect(settings.body.models).toEqual([
+      expect.objectContaining({ modelId, minSupervisedCases: null, effective: 20 }),
+    ]);
+
+    const put = (client: Client, path: string, body: object) =>
+      client.agent.put(path).set('X-XSRF-TOKEN', client.csrf).send(body);
+    const path = `/api/visits/settings/models/${modelId}`;
+    for (const bad of [10.5, -1, 501, 'ten']) {
+      const res = await put(fleet, path, { minSupervisedCases: bad });
+      expect([bad, res.status]).toEqual([bad, 422]);
+      expect(res.body.error.details.fieldErrors.minSupervisedCases[0]).toMatch(
+        /whole number|from 0 to 500/,
+      );
+    }
+    expect(await countRows(t.dataSource, 'visit_model_settings', 'model_id = ?', [modelId])).toBe(
+      0,
+    );
+    // Another lender's fleet manager: 403 before the body is read; unknown model 404.
+    expect((await put(await sign(other.fleet), path, { minSupervisedCases: 'x' })).status).toBe(
+      403,
+    );
+    expect(
+      (await put(fleet, '/api/visits/settings/models/999999999', { minSupervisedCases: 5 })).status,
+    ).toBe(404);
+    expect((await put(buyer, path, { minSupervisedCases: 5 })).status).toBe(403);
+
+    const ok = await put(fleet, path, { minSupervisedCases: 10 });
+    expect(ok.status).toBe(200);
+    expect(ok.body.models[0]).toMatchObject({ minSupervisedCases: 10, effective: 10 });
+    expect((await candidate()).eligible).toBe(true);
+    const [audit] = await t.dataSource.query(
+      'SELECT organisation_id, detail FROM audit_events WHERE action = ? AND subject = ?',
+      ['visit_settings.min_supervised_cases', `model:${modelId}`],
+    );
+    expect(Number(audit.organisation_id)).toBe(lender.id);
+    expect(jsonColumn(audit.detail)).toMatchObject({ from: null, to: 10 });
+
+    // Null returns the model to the lender's default.
+    const reset = await put(fleet, path, { minSupervisedCases: null });
+    expect(reset.body.models[0]).toMatchObject({ minSupervisedCases: null, effective: 20 });
+    expect((await candidate()).eligible).toBe(false);
+  });
+
+  it('a hospital sets its sign-off threshold (1–10); the next sign-off uses it', async () => {
+    const w = await world(47);
+    const other = await makeHospital(t.dataSource);
+    const put = (client: Client, body: object, id = w.hospital.id) =>
+      client.agent
+        .put(`/api/visits/settings/hospitals/${id}`)
+        .set('X-XSRF-TOKEN', client.csrf)
+        .send(body);
+    const got = await w.buyer.agent
+      .get(`/api/visits/settings/hospitals/${w.hospital.id}`)
+      .expect(200);
+    // Default 3 (policy default; survey mean 3.24 ± 1.69, range 1–10, reference-values.md).
+    expect(got.body.signOffThreshold).toBe(3);
+    for (const bad of [0, 11, 2.5]) {
+      const res = await put(w.buyer, { signOffThreshold: bad });
+      expect([bad, res.status]).toEqual([bad, 422]);
+      expect(res.body.error.details.fieldErrors.signOffThreshold[0]).toMatch(
+        /whole number|from 1 to 10/,
+      );
+    }
+    expect((await put(await sign(other.buyer), { signOffThreshold: 2 })).status).toBe(403);
+    expect((await put(await sign(w.hospital.clinician), { signOffThreshold: 2 })).status).toBe(403);
+    const [unchanged] = await t.dataSource.query(
+      'SELECT sign_off_threshold AS n FROM organisations WHERE id = ?',
+      [w.hospital.id],
+    );
+    expect(Number(unchanged.n)).toBe(3);
+
+    const ok = await put(w.buyer, { signOffThreshold: 2 });
+    expect(ok.status).toBe(200);
+    expect(ok.body.signOffThreshold).toBe(2);
+    const audits = await t.dataSource.query(
+      'SELECT detail FROM audit_events WHERE action = ? AND organisation_id = ?',
+      ['visit_settings.sign_off_threshold', w.hospital.id],
+    );
+    expect(audits.map((a: { detail: unknown }) => jsonColumn(a.detail))).toEqual([
+      { from: 3, to: 2 },
+    ]);
+
+    // Two cases performed under supervision now suffice for a sign-off.
+    const p = await makeProctor(t.dataSource, { experience: { [w.modelId]: 40 } });
+    const created = await post(
+      w.buyer,
+      '/api/visits',
+      visitBody(w, { proctorIds: [p.userId] }),
+    ).expect(201);
+    const id = created.body.visit.id as number;
+    await post(await sign(p), `/api/visits/${id}/accept`).expect(200);
+    clockAt = bostonMorning(w.from);
+    const proctor = await signOnTheDay(p);
+    for (const caseNumber of [1, 2]) {
+      await post(proctor, `/api/visits/${id}/cases`, {
+        caseNumber,
+        traineeUserId: w.hospital.clinician.userId,
+        traineeRole: 'performed_supervised',
+        ratings: {
+          setup: 4,
+          docking: 4,
+          instrument_handling: 4,
+          troubleshooting: 4,
+          team_communication: 4,
+        },
+      }).expect(201);
+    }
+    const signed = await post(proctor, `/api/visits/${id}/sign-offs`, {
+      traineeUserId: w.hospital.clinician.userId,
+    });
+    expect(signed.status).toBe(201);
+    expect(signed.body.visit.signOffs[0]).toMatchObject({ proctoredCases: 2, threshold: 2 });
   });
 });
 

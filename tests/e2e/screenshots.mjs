@@ -1,13 +1,13 @@
 // Screenshots for the user guide (docs/user-guide.md), taken from a running Evalon with fresh
 // demo data (`npm run demo:reset` first), at 1280×800:
 //
-//   node tests/e2e/screenshots.mjs [baseUrl] [--only=group,...]   (default http://127.0.0.1:8080)
+//   node tests/e2e/screenshots.mjs [baseUrl] [--only=visits|shipments]  (default port 8080)
 //
-// Groups, in order: buyer, fleet, proctor, request, deposit, notifications, shipments, maps.
-//
-// Saves all 29 pictures in docs/screenshots/, in this order: sign-in, home-buyer, members,
+// Saves all 40 pictures in docs/screenshots/, in this order: sign-in, home-buyer, members,
 // loans-table, loan-page, home-fleet, approval-queue, catalog-models, model-editor,
-// depots-settings, units, unit-detail, maintenance-conflict, home-proctor, buyer-search,
+// depots-settings, units, unit-detail, maintenance-conflict, home-proctor, visits-list,
+// visit-candidates, visit-page, proctor-offers, proctor-credentials, proctor-availability,
+// proctor-calendar, training-record, visit-settings-hospital, visit-settings-lender, buyer-search,
 // unit-page, request-stepper-campus, request-stepper-units, request-stepper,
 // request-stepper-conflict, deposit-due, provider-page, loan-confirmed, notifications,
 // shipments-board, shipments-today, shipments-map, shipment-photos and maps-standin.
@@ -36,11 +36,11 @@ const baseUrl = (args.find((a) => !a.startsWith('--')) ?? 'http://127.0.0.1:8080
   /\/$/,
   '',
 );
-/** `--only=shipments,maps`: just these groups of pictures (names in `main`). */
-const only = args
-  .find((a) => a.startsWith('--only='))
-  ?.slice('--only='.length)
-  .split(',');
+/**
+ * `--only=visits` takes the proctoring pictures alone (they need only fresh demo visits);
+ * `--only=shipments` the coordinator's shipment pictures alone (fresh demo shipments).
+ */
+const only = args.find((a) => a.startsWith('--only='))?.slice('--only='.length) ?? null;
 const viewport = { width: 1280, height: 800 };
 const demoPassword = 'evalon-demo';
 /** The payments stand-in (its hosted payment page and its `/__fake` control API). */
@@ -54,6 +54,12 @@ const otherBuyer = { email: 'buyer@orlenbach.example', firstName: 'Friederike' }
 const fleet = { email: 'fleet@quorvel.example', firstName: 'Marcus' };
 const coordinator = { email: 'coordinator@quorvel.example', firstName: 'Priya' };
 const proctor = { email: 'proctor@proctors.example', firstName: 'Helena' };
+/** People of the demo visits (server/src/demo/demo-proctors.ts). */
+const travellingProctors = [
+  { email: 'i.varga@proctors.example', firstName: 'Ilse' },
+  { email: 'm.quintanar@proctors.example', firstName: 'Marisol' },
+];
+const trainee = { email: 'clinician@orlenbach.example', firstName: 'Jonas' };
 
 /** Pages whose icons did not draw in the icon font. */
 const problems = [];
@@ -836,6 +842,171 @@ window.onMapsReady = () => {
   await shoot(page, 'maps-standin.png');
 }
 
+// --- Proctoring visits: hospital, proctor, clinician and settings --------------------------
+
+/** The hospital side: the visits list, the request form with its candidates, a visit page. */
+async function hospitalVisits(page) {
+  await signIn(page, buyer.email, buyer.firstName);
+  await openFromNavigation(page, 'Proctoring');
+  await page.getByRole('heading', { level: 1, name: 'Proctoring visits' }).waitFor();
+  for (const state of ['Accepted', 'No proctor found', 'Cancelled', 'Completed']) {
+    await expectVisible(
+      page.getByRole('table').getByText(state, { exact: true }),
+      `a visit "${state}"`,
+    );
+  }
+  await restPointer(page);
+  await shoot(page, 'visits-list.png');
+
+  // The request form, filled the way the loan page fills it, and the ranked candidates.
+  const sites = (await (await page.request.get(`${baseUrl}/api/sites`)).json()).items;
+  const models = (await (await page.request.get(`${baseUrl}/api/models`)).json()).items;
+  const site = sites.find((x) => x.name === 'Velmora East Campus');
+  const model = models.find((x) => x.name === 'Quorvel R2 robotic platform');
+  if (!site || !model) throw new Error('the demo campus or robotic platform is missing');
+  const days = caseDaysFrom(77, 2);
+  await page.goto(
+    `${baseUrl}/visits/new?siteId=${site.id}&modelId=${model.id}&from=${days.from.iso}&to=${days.to.iso}`,
+  );
+  await page.getByRole('heading', { level: 1, name: 'Ask for a proctor' }).waitFor();
+  await page.getByRole('button', { name: 'Find proctors' }).click();
+  const eligible = page.getByRole('list', { name: 'Proctors who can come' });
+  await expectVisible(eligible.getByText(/supervised cases on this model/), 'the reasons', 30_000);
+  await expectVisible(
+    page.getByRole('list', { name: 'Proctors who cannot come' }),
+    'the excluded proctors',
+  );
+  await eligible.getByRole('checkbox').first().check();
+  await scrollToTop(page.getByRole('list', { name: 'Proctors who can come' }), 120);
+  await restPointer(page);
+  await shoot(page, 'visit-candidates.png');
+}
+
+/** The other hospital's signed-off visit: timeline with a decline, cases and the sign-off. */
+async function visitPage(page) {
+  await signIn(page, otherBuyer.email, otherBuyer.firstName);
+  await openFromNavigation(page, 'Proctoring');
+  await page
+    .getByRole('table')
+    .getByRole('row')
+    .filter({ hasText: 'Signed off' })
+    .getByRole('link', { name: /^PV-/ })
+    .click();
+  await expectVisible(
+    page.getByRole('heading', { level: 1, name: /^PV-\d{4}-\d{6}$/ }),
+    'the reference',
+  );
+  const timeline = page.locator('.timeline');
+  for (const step of ['Requested', 'Declined', 'Accepted', 'Case recorded', 'Signed off']) {
+    await expectVisible(timeline.getByText(step, { exact: true }), `the step "${step}"`);
+  }
+  await expectVisible(page.getByRole('link', { name: /Record \(PDF\)/ }), 'the sign-off record');
+  // The timeline is what this picture is for: each step at its own time.
+  await scrollToTop(timeline, 24);
+  await restPointer(page);
+  await shoot(page, 'visit-page.png');
+}
+
+/** The proctor with an offer waiting: offers, credentials, availability with its exceptions. */
+async function proctorPages(page) {
+  await signIn(page, proctor.email, proctor.firstName);
+  await openFromNavigation(page, 'Visit offers');
+  await expectVisible(page.locator('mat-card[data-reference]').getByText(/left/), 'the countdown');
+  await restPointer(page);
+  await shoot(page, 'proctor-offers.png');
+
+  await openFromNavigation(page, 'Credentials');
+  await expectVisible(page.getByRole('cell', { name: 'Illinois medical licence' }), 'a licence');
+  await restPointer(page);
+  await shoot(page, 'proctor-credentials.png');
+
+  await page.goto(`${baseUrl}/proctor/availability`);
+  await expectVisible(
+    page.getByRole('heading', { level: 2, name: 'Exceptions' }),
+    'the exceptions',
+  );
+  await expectVisible(page.getByRole('gridcell').nth(55), 'the 8 weeks');
+  await restPointer(page);
+  await shoot(page, 'proctor-availability.png');
+}
+
+/**
+ * A proctor with an accepted visit: the month of it, with its travel days when a demo proctor
+ * has a visit far enough from home for them (otherwise the nearest accepted visit).
+ */
+async function proctorCalendar(browser) {
+  let chosen = null;
+  for (const person of travellingProctors) {
+    await withPerson(browser, async (page) => {
+      if (chosen?.visit.travelDays) return;
+      await signIn(page, person.email, person.firstName);
+      const me = (await (await page.request.get(`${baseUrl}/api/auth/me`)).json()).user.id;
+      const visits = (await (await page.request.get(`${baseUrl}/api/visits?role=proctor`)).json())
+        .items;
+      const visit = visits
+        .filter((v) => v.proctorId === me && v.state === 'accepted')
+        .sort((a, b) => (b.travelDays ?? 0) - (a.travelDays ?? 0))[0];
+      if (visit && (!chosen || visit.travelDays > (chosen.visit.travelDays ?? 0))) {
+        chosen = { person, visit };
+      }
+    });
+  }
+  if (!chosen) throw new Error('no demo proctor has an accepted visit');
+  await withPerson(browser, async (page) => {
+    const { person, visit } = chosen;
+    await signIn(page, person.email, person.firstName);
+    await openFromNavigation(page, 'Calendar');
+    await page.getByRole('heading', { level: 1, name: 'Calendar' }).waitFor();
+    await expectVisible(page.getByRole('grid'), 'the month');
+    for (let i = 0; i < 3; i++) {
+      if (await page.locator(`td[data-date="${visit.from}"]`).count()) break;
+      await page.getByRole('button', { name: 'Next month' }).click();
+      await settle(page);
+    }
+    await expectVisible(page.getByRole('link', { name: new RegExp(visit.reference) }), 'the visit');
+    if (visit.travelDays) await expectVisible(page.locator('td.travel'), 'the travel days');
+    await scrollToTop(page.getByRole('grid'), 64);
+    await restPointer(page);
+    await shoot(page, 'proctor-calendar.png');
+  });
+}
+
+/** A clinician signed off on the other hospital's visit: My training. */
+async function trainingRecord(page) {
+  await signIn(page, trainee.email, trainee.firstName);
+  await openFromNavigation(page, 'My training');
+  await page.getByRole('heading', { level: 1, name: 'My training' }).waitFor();
+  await expectVisible(
+    page.getByText(/Signed off · \d+ cases performed under supervision/),
+    'the progress',
+  );
+  await expectVisible(page.getByRole('link', { name: /Record \(PDF\)/ }), 'the record');
+  await restPointer(page);
+  await shoot(page, 'training-record.png');
+}
+
+/** Visit settings of a hospital (sign-off threshold) and a lender (minimum per model). */
+async function visitSettings(browser) {
+  await withPerson(browser, async (page) => {
+    await signIn(page, buyer.email, buyer.firstName);
+    await openFromNavigation(page, 'Visit settings');
+    await expectVisible(page.getByLabel('Cases before sign-off'), 'the threshold');
+    await restPointer(page);
+    await shoot(page, 'visit-settings-hospital.png');
+  });
+  await withPerson(browser, async (page) => {
+    await signIn(page, fleet.email, fleet.firstName);
+    await openFromNavigation(page, 'Visit settings');
+    await expectVisible(
+      page.getByRole('heading', { level: 2, name: 'Minimum supervised cases per model' }),
+      'the models',
+    );
+    await expectVisible(page.getByText(/^Now \d+/), 'the minimum in force');
+    await restPointer(page);
+    await shoot(page, 'visit-settings-lender.png');
+  });
+}
+
 async function main() {
   const startedAt = Date.now();
   fs.mkdirSync(outDir, { recursive: true });
@@ -843,25 +1014,32 @@ async function main() {
     executablePath: '/usr/bin/chromium',
     args: ['--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking'],
   });
-  const groups = [
-    ['buyer', buyerBasics],
-    ['fleet', fleetPages],
-    [
-      'proctor',
-      async (page) => {
+  const visitPictures = async () => {
+    await withPerson(browser, hospitalVisits);
+    await withPerson(browser, visitPage);
+    await withPerson(browser, proctorPages);
+    await proctorCalendar(browser);
+    await withPerson(browser, trainingRecord);
+    await visitSettings(browser);
+  };
+  try {
+    if (only === 'visits') {
+      await visitPictures();
+    } else if (only === 'shipments') {
+      await withPerson(browser, coordinatorShipments);
+    } else {
+      await withPerson(browser, buyerBasics);
+      await withPerson(browser, fleetPages);
+      await withPerson(browser, async (page) => {
         await signIn(page, proctor.email, proctor.firstName);
         await shoot(page, 'home-proctor.png');
-      },
-    ],
-    ['request', (page) => buyerRequest(browser, page)],
-    ['deposit', buyerDeposit],
-    ['notifications', coordinatorBell],
-    ['shipments', coordinatorShipments],
-    ['maps', mapsStandin],
-  ];
-  try {
-    for (const [name, run] of groups) {
-      if (!only || only.includes(name)) await withPerson(browser, run);
+      });
+      await visitPictures();
+      await withPerson(browser, (page) => buyerRequest(browser, page));
+      await withPerson(browser, buyerDeposit);
+      await withPerson(browser, coordinatorBell);
+      await withPerson(browser, coordinatorShipments);
+      await withPerson(browser, mapsStandin);
     }
   } finally {
     await browser.close();

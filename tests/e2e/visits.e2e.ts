@@ -7,6 +7,7 @@ import {
   type Browser,
   type Page,
 } from '@playwright/test';
+import { createConnection } from 'mysql2/promise';
 import { demoPassword, signIn, waitForMessages } from './helpers';
 
 /*
@@ -65,6 +66,38 @@ async function apiAs(email: string) {
     return res.json();
   };
   return { ctx, get: async (url: string) => (await ctx.get(url)).json(), send };
+}
+
+/**
+ * Cases are recorded only on a visit's days, but the loan's case days are weeks ahead and the
+ * server reads the real clock. So the test lets the days come: it moves the accepted visit's
+ * days (and the proctor's busy days) to today and tomorrow at the campus, in the e2e database.
+ */
+async function visitDaysArrive(reference: string): Promise<void> {
+  const db = await createConnection({
+    host: process.env.EVALON_DB_HOST ?? '127.0.0.1',
+    port: Number(process.env.EVALON_DB_PORT ?? 3307),
+    user: process.env.EVALON_DB_USER ?? 'evalon',
+    password: process.env.EVALON_DB_PASSWORD ?? 'evalon-local',
+    database: process.env.EVALON_DB_NAME!,
+  });
+  try {
+    const [rows] = await db.query('SELECT site_time_zone AS zone FROM visits WHERE reference = ?', [
+      reference,
+    ]);
+    const zone = (rows as { zone: string }[])[0]!.zone;
+    const today = new Intl.DateTimeFormat('en-CA', { timeZone: zone }).format(new Date());
+    const tomorrow = new Date(Date.parse(`${today}T00:00:00Z`) + 86_400_000)
+      .toISOString()
+      .slice(0, 10);
+    await db.query(
+      `UPDATE visits SET visit_from = ?, visit_to = ?, busy_from = ?, busy_to = ?
+        WHERE reference = ? AND state = 'accepted'`,
+      [today, tomorrow, today, tomorrow, reference],
+    );
+  } finally {
+    await db.end();
+  }
 }
 
 /** A Tuesday–Wednesday at least `days` ahead (UTC calendar), as ISO dates. */
@@ -195,7 +228,13 @@ test('a buyer asks for a proctor from a confirmed loan; the second proctor accep
     expect(mail!.attachments?.some((a) => a.contentType?.startsWith('text/calendar'))).toBe(true);
   }
 
-  // The proctor records three supervised cases and signs the trainee off.
+  // Before the first day the proctor can still withdraw and cannot record cases yet.
+  await two.page.goto(visitPath);
+  await expect(two.page.getByRole('button', { name: 'Withdraw from visit' })).toBeVisible();
+  await expect(two.page.getByText(/Cases can be recorded from/)).toBeVisible();
+
+  // The proctor records three supervised cases on the visit's days and signs the trainee off.
+  await visitDaysArrive(reference);
   await two.page.goto(visitPath);
   await expect(two.page.locator('ev-page-header .state')).toHaveText('Accepted');
   for (let n = 1; n <= 3; n++) {

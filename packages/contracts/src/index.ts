@@ -9,3 +9,4 @@ export * from './paging';
 export * from './values/paging';
 export * from './visits';
 export * from './shipments';
+export * from './evidence';

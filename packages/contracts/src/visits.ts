@@ -45,7 +45,10 @@ export const availabilitySettings = z
     exceptions: z
       .array(
         z.discriminatedUnion('kind', [
+          /** A day taken out of the pattern. */
           z.object({ kind: z.literal('date'), date: isoDate }),
+          /** A one-off extra day of availability (like an RFC 5545 RDATE). */
+          z.object({ kind: z.literal('extra'), date: isoDate }),
           z.object({ kind: z.literal('rule'), rule: z.string().trim().min(1).max(500) }),
         ]),
       )
@@ -57,6 +60,38 @@ export const availabilitySettings = z
           .refine((r) => r.to >= r.from, { message: 'The end is before the start.', path: ['to'] }),
       )
       .max(200),
+  })
+  .superRefine((a, ctx) => {
+    // Contradictions a person should resolve rather than have one silently win.
+    const seen = new Map<string, 'date' | 'extra'>();
+    a.exceptions.forEach((e, i) => {
+      if (e.kind === 'rule') return;
+      const before = seen.get(e.date);
+      if (before === e.kind) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['exceptions', i, 'date'],
+          message: `${e.date} is already in the list.`,
+        });
+      } else if (before) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['exceptions', i, 'date'],
+          message: `${e.date} is both taken out and added; keep one of the two.`,
+        });
+      }
+      seen.set(e.date, e.kind);
+      if (e.kind === 'extra') {
+        const b = a.blackouts.findIndex((x) => x.from <= e.date && e.date <= x.to);
+        if (b >= 0) {
+          ctx.addIssue({
+            code: 'custom',
+            path: ['exceptions', i, 'date'],
+            message: `${e.date} falls in blackout ${b + 1} (${a.blackouts[b]!.from} to ${a.blackouts[b]!.to}); remove one of them.`,
+          });
+        }
+      }
+    });
   })
   .meta({ id: 'AvailabilitySettings' });
 export type AvailabilitySettings = z.infer<typeof availabilitySettings>;
@@ -397,3 +432,134 @@ export const visitQuery = z.object({
 export const declineOfferRequest = z
   .object({ reason: z.string().trim().min(3, 'Say why in a few words.').max(1000) })
   .meta({ id: 'DeclineOfferRequest' });
+
+/** Shortest reason a proctor gives when withdrawing from an accepted visit. */
+export const withdrawReasonMinLength = 10;
+
+/** `POST /api/visits/:id/withdraw`: the accepted proctor steps back before the first visit day. */
+export const withdrawVisitRequest = z
+  .object({
+    reason: z
+      .string()
+      .trim()
+      .min(
+        withdrawReasonMinLength,
+        `Tell the hospital why in at least ${withdrawReasonMinLength} characters.`,
+      )
+      .max(1000),
+  })
+  .meta({ id: 'WithdrawVisitRequest' });
+export type WithdrawVisitRequest = z.infer<typeof withdrawVisitRequest>;
+
+/** One visit in a clinician's training record: their own cases on it and their sign-off. */
+export const trainingVisit = z.object({
+  visitId: z.number().int(),
+  reference: z.string(),
+  state: visitState,
+  hospitalName: z.string(),
+  siteName: z.string(),
+  siteTimeZone: z.string(),
+  modelId: z.number().int(),
+  modelName: z.string(),
+  from: isoDate,
+  to: isoDate,
+  proctorName: z.string().nullable(),
+  /** The trainee's own cases on the visit (never other trainees'). */
+  cases: z.array(
+    z.object({
+      caseNumber: z.number().int(),
+      traineeRole: z.enum(traineeRoles),
+      ratings: z.record(z.string(), z.number()),
+      recordedAt: z.string(),
+    }),
+  ),
+  signOff: z
+    .object({
+      id: z.number().int(),
+      signedAt: z.string(),
+      proctoredCases: z.number().int(),
+      threshold: z.number().int(),
+      /** Download link of the one-page record (PDF). */
+      pdfUrl: z.string(),
+    })
+    .nullable(),
+});
+export type TrainingVisit = z.infer<typeof trainingVisit>;
+
+/** Progress towards sign-off per hospital and model: cases performed under supervision. */
+export const trainingProgress = z.object({
+  hospitalId: z.number().int(),
+  hospitalName: z.string(),
+  modelId: z.number().int(),
+  modelName: z.string(),
+  supervisedCases: z.number().int(),
+  /** The hospital's sign-off threshold (setting, default 3). */
+  threshold: z.number().int(),
+  signedOff: z.boolean(),
+});
+export type TrainingProgress = z.infer<typeof trainingProgress>;
+
+/** `GET /api/visits/training-record`: the signed-in clinician's own record. */
+export const trainingRecord = z
+  .object({
+    trainee: z.object({ userId: z.number().int(), name: z.string() }),
+    progress: z.array(trainingProgress),
+    visits: z.array(trainingVisit),
+  })
+  .meta({ id: 'TrainingRecord' });
+export type TrainingRecord = z.infer<typeof trainingRecord>;
+
+/** Range a lender may set for the minimum supervised cases on a model (product choice). */
+export const minSupervisedCasesRange = { min: 0, max: 500 } as const;
+/**
+ * Range of a hospital's sign-off threshold: the 42 policies in the published survey asked for
+ * 1 to 10 proctored cases (reference-values.md).
+ */
+export const signOffThresholdRange = { min: 1, max: 10 } as const;
+
+const wholeIn = (range: { min: number; max: number }, what: string) =>
+  z
+    .number({ error: `Enter ${what} as a whole number.` })
+    .int(`Enter ${what} as a whole number.`)
+    .min(range.min, `Enter ${what} from ${range.min} to ${range.max}.`)
+    .max(range.max, `Enter ${what} from ${range.min} to ${range.max}.`);
+
+/** `GET /api/visits/settings/lenders/:lenderId`. */
+export const lenderVisitSettings = z
+  .object({
+    lenderId: z.number().int(),
+    /** The lender's default (20 unless changed), used by models without their own. */
+    lenderDefault: z.number().int(),
+    models: z.array(
+      z.object({
+        modelId: z.number().int(),
+        name: z.string(),
+        /** The model's own minimum, or null when the lender's default applies. */
+        minSupervisedCases: z.number().int().nullable(),
+        /** What matching uses. */
+        effective: z.number().int(),
+      }),
+    ),
+  })
+  .meta({ id: 'LenderVisitSettings' });
+export type LenderVisitSettings = z.infer<typeof lenderVisitSettings>;
+
+/** `PUT /api/visits/settings/models/:modelId`: null returns the model to the lender's default. */
+export const modelMinimumRequest = z
+  .object({
+    minSupervisedCases: wholeIn(minSupervisedCasesRange, 'the minimum supervised cases').nullable(),
+  })
+  .meta({ id: 'ModelMinimumRequest' });
+
+/** `GET/PUT /api/visits/settings/hospitals/:hospitalId`. */
+export const hospitalVisitSettings = z
+  .object({
+    hospitalId: z.number().int(),
+    name: z.string(),
+    signOffThreshold: z.number().int(),
+  })
+  .meta({ id: 'HospitalVisitSettings' });
+export type HospitalVisitSettings = z.infer<typeof hospitalVisitSettings>;
+export const signOffThresholdRequest = z
+  .object({ signOffThreshold: wholeIn(signOffThresholdRange, 'the sign-off threshold') })
+  .meta({ id: 'SignOffThresholdRequest' });

@@ -240,6 +240,43 @@ describe('exceptions and blackouts', () => {
     expect(days).toHaveLength(19);
   });
 
+  it('adds one-off extra days (RDATE-like); exception days and rules still take them out', () => {
+    // RFC 5545 §3.8.5.1: RRULE and RDATE instances form the set, EXDATE and EXRULE remove from
+    // it. 12 June 2027 is a Saturday (outside the weekday pattern).
+    const days = availabilityDays(
+      {
+        rules: [base],
+        exceptions: [
+          { kind: 'extra', date: '2027-06-12' },
+          { kind: 'extra', date: '2027-06-13' },
+          { kind: 'date', date: '2027-06-13' },
+          { kind: 'extra', date: '2027-06-19' },
+        ],
+        blackouts: [{ from: '2027-06-19', to: '2027-06-20' }],
+      },
+      zone,
+      { from: '2027-06-11', to: '2027-06-20' },
+    );
+    const status = Object.fromEntries(days.map((d) => [d.date, d.status]));
+    expect(status).toMatchObject({
+      '2027-06-11': 'available',
+      '2027-06-12': 'available',
+      '2027-06-13': 'exception',
+      '2027-06-19': 'blackout',
+      '2027-06-20': 'blackout',
+    });
+    // An extra day outside the range changes nothing inside it.
+    expect(days.filter((d) => d.status === 'available').map((d) => d.date)).toEqual([
+      '2027-06-11',
+      '2027-06-12',
+      '2027-06-14',
+      '2027-06-15',
+      '2027-06-16',
+      '2027-06-17',
+      '2027-06-18',
+    ]);
+  });
+
   it('previews 8 weeks of available days', () => {
     const preview = availabilityPreview(
       { rules: [base], exceptions: [{ kind: 'date', date: '2027-07-05' }], blackouts: [] },

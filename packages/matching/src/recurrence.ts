@@ -718,6 +718,7 @@ function readAvailability(availability: ProctorAvailability): {
   rules: ParsedRule[];
   exceptionRules: ParsedRule[];
   exceptionDates: Set<IsoDate>;
+  extraDates: Set<IsoDate>;
   blackouts: DateRange[];
 } {
   const rules = availability.rules.map((text, i) =>
@@ -725,9 +726,12 @@ function readAvailability(availability: ProctorAvailability): {
   );
   const exceptionRules: ParsedRule[] = [];
   const exceptionDates = new Set<IsoDate>();
+  const extraDates = new Set<IsoDate>();
   availability.exceptions.forEach((exception, i) => {
     if (exception.kind === 'date') {
       exceptionDates.add(assertIsoDate(exception.date));
+    } else if (exception.kind === 'extra') {
+      extraDates.add(assertIsoDate(exception.date));
     } else if (exception.kind === 'rule') {
       exceptionRules.push(parseOrThrow(exception.rule, `Exception rule ${i + 1}`));
     } else {
@@ -735,11 +739,18 @@ function readAvailability(availability: ProctorAvailability): {
     }
   });
   availability.blackouts.forEach((b, i) => assertRange(b, `Blackout ${i + 1}`));
-  return { rules, exceptionRules, exceptionDates, blackouts: availability.blackouts };
+  return {
+    rules,
+    exceptionRules,
+    exceptionDates,
+    extraDates,
+    blackouts: availability.blackouts,
+  };
 }
 
 /**
- * Says for each day of `range` whether the proctor is available: some rule occurs on it, and
+ * Says for each day of `range` whether the proctor is available: some rule occurs on it (or it
+ * is a one-off extra day), and
  * neither an exception date, an exception rule nor a blackout takes it out. Days are the
  * proctor's calendar days in `zone`; an occurrence counts for the day its start falls on.
  * @throws AvailabilityRuleError for an unreadable rule; RangeError for bad dates or zone.
@@ -752,7 +763,9 @@ export function availabilityDays(
   assertTimeZone(zone);
   assertRange(range, 'The range');
   const read = readAvailability(availability);
-  const occurring = new Set<IsoDate>();
+  // RFC 5545 §3.8.5.1: the set is the rules' occurrences plus the extra days (RDATE-like),
+  // minus the exception days and rules (EXDATE/EXRULE-like); blackouts take out whole days.
+  const occurring = new Set<IsoDate>(read.extraDates);
   for (const rule of read.rules) {
     for (const o of expand(rule, zone, range.from, range.to)) occurring.add(o.date);
   }

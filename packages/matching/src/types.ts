@@ -70,6 +70,15 @@ export type AvailabilityException =
       date: IsoDate;
     }
   | {
+      /**
+       * A one-off extra day of availability outside the pattern (like an RDATE, RFC 5545
+       * §3.8.5.2). As in RFC 5545 §3.8.5.1, exception days and rules still take it out.
+       */
+      kind: 'extra';
+      /** The day, in the proctor's zone. */
+      date: IsoDate;
+    }
+  | {
       /** Every day on which this recurrence has an occurrence is taken out (like an EXRULE). */
       kind: 'rule';
       /** `DTSTART` and `RRULE` lines, as in {@link ProctorAvailability.rules}. */

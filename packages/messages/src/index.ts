@@ -108,6 +108,7 @@ export {
   credentialExpiring,
   visitAccepted,
   visitCancelled,
+  visitWithdrawn,
   visitEventUid,
   visitOfferAnswered,
   visitOffered,

@@ -1,5 +1,11 @@
 import ICAL from 'ical.js';
-import { buildVisitInvite, visitAccepted, visitOffered, type VisitSummary } from './visits';
+import {
+  buildVisitInvite,
+  visitAccepted,
+  visitOffered,
+  visitWithdrawn,
+  type VisitSummary,
+} from './visits';
 
 const visit: VisitSummary = {
   id: 42,
@@ -95,5 +101,40 @@ describe('visit e-mails', () => {
     );
     expect(mail.attachments?.[0]?.contentType).toBe('text/calendar; charset=utf-8; method=REQUEST');
     expect(mail.text).toContain('$6,800.00');
+  });
+
+  it('sends the withdrawing proctor a CANCEL for their calendar and the hospital the reason only', () => {
+    const data = {
+      visit,
+      publicUrl: 'https://evalon.example',
+      proctorName: 'Dr Example',
+      reason: 'A family emergency keeps me home.',
+      invite: { ...invite, attendees: [invite.attendees[0]!], sequence: 1 },
+    };
+    const toProctor = visitWithdrawn(
+      { ...data, audience: 'proctor' },
+      { name: 'Dr Example', email: 'proctor@proctors.example', timeZone: 'America/Chicago' },
+    );
+    // RFC 6047 §2.4: the MIME method parameter equals the METHOD inside.
+    expect(toProctor.attachments?.[0]?.contentType).toBe(
+      'text/calendar; charset=utf-8; method=CANCEL',
+    );
+    const calendar = new ICAL.Component(ICAL.parse(String(toProctor.attachments?.[0]?.content)));
+    // RFC 5546 §3.2.5: CANCEL names the attendee who leaves, the same UID, a higher SEQUENCE.
+    expect(calendar.getFirstPropertyValue('method')).toBe('CANCEL');
+    const [event] = calendar.getAllSubcomponents('vevent');
+    expect(event!.getAllProperties('attendee')).toHaveLength(1);
+    expect(String(event!.getFirstPropertyValue('attendee'))).toContain('proctor@proctors.example');
+    expect(event!.getFirstPropertyValue('uid')).toBe('visit-42@evalon.example');
+    expect(event!.getFirstPropertyValue('sequence')).toBe(1);
+
+    const toHospital = visitWithdrawn(
+      { ...data, audience: 'hospital' },
+      { name: 'Buyer', email: 'buyer@hospital.example', timeZone: 'America/New_York' },
+    );
+    expect(toHospital.attachments).toBeUndefined();
+    expect(toHospital.subject).toBe('Visit PV-2027-000042: Dr Example withdrew');
+    expect(toHospital.text).toContain('A family emergency keeps me home.');
+    expect(toHospital.text).toContain('next proctor');
   });
 });

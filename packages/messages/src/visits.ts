@@ -327,6 +327,43 @@ export function visitCancelled(
   );
 }
 
+/**
+ * "The proctor withdrew" from an accepted visit before its first day. To the proctor it carries
+ * the calendar CANCEL (RFC 5546 §3.2.5: the organizer cancels the event for the attendee who
+ * leaves); to the requester it says who is asked next.
+ */
+export function visitWithdrawn(
+  data: VisitMessageData & {
+    proctorName: string;
+    reason: string;
+    audience: 'proctor' | 'hospital';
+    invite?: Omit<VisitInviteInput, 'visit' | 'publicUrl' | 'method'>;
+  },
+  recipient: Recipient,
+): LoanEmail {
+  const to = normaliseRecipient(recipient);
+  const forProctor = data.audience === 'proctor';
+  return finish(
+    forProctor
+      ? `Visit ${data.visit.reference}: you withdrew`
+      : `Visit ${data.visit.reference}: ${data.proctorName} withdrew`,
+    forProctor ? 'You withdrew from the visit' : 'The proctor withdrew from the visit',
+    to,
+    [
+      {
+        kind: 'paragraph',
+        text: forProctor
+          ? `You are no longer the proctor of this visit; the attached cancellation removes it${data.visit.travelDays ? ' and its travel days' : ''} from your calendar.`
+          : `${data.proctorName} can no longer come. Evalon offers the visit to the next proctor on your list, if any; you will hear when someone accepts.`,
+      },
+      { kind: 'quote', title: 'Reason given', text: data.reason },
+      facts(data, to.locale),
+    ],
+    data,
+    forProctor && data.invite ? [inviteAttachment(data, data.invite, 'CANCEL')] : undefined,
+  );
+}
+
 /** "Trainee signed off", to the hospital's buyers and the trainee (the PDF is attached by the caller). */
 export function visitSignedOff(
   data: VisitMessageData & { traineeName: string; proctoredCases: number },

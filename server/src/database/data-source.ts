@@ -29,6 +29,9 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
  * `typeorm_metadata` (which the demo data loader must not empty).
  */
 export const appTables = [
+  'evaluation_decisions',
+  'evaluation_feedback',
+  'evaluation_cases',
   'loan_settlements',
   'shipment_photos',
   'inspection_findings',
@@ -38,6 +41,7 @@ export const appTables = [
   'shipment_items',
   'shipments',
   'shipment_settings',
+  'visit_model_settings',
   'visit_sign_offs',
   'visit_cases',
   'visit_events',

@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import { addCalendarDays, isoWeekday } from '@evalon/scheduling';
+import { addCalendarDays, isoWeekday, wallTimeToInstant } from '@evalon/scheduling';
 import { competencies } from '@evalon/contracts';
 import {
   insertMembership,
@@ -177,21 +177,39 @@ export async function loadDemoProctoring(
     proctorIds.set(p.email, (await idOf(ds, 'SELECT id FROM users WHERE email = ?', p.email))!);
   }
   let visits = 0;
-  for (const v of demoVisits) {
-    // Past visits are asked for two weeks before their first day.
-    const clock =
-      v.startInDays < 0 ? new Date(now.getTime() + (v.startInDays - 14) * 86_400_000) : now;
+  const hour = 3_600_000;
+  for (const [index, v] of demoVisits.entries()) {
+    // Each step happens at its own plausible instant, all before `now`, so the visit page's
+    // timeline reads like a real one: a past visit was asked for two weeks before its first day,
+    // a coming one two to four days ago; answers follow hours later, cases on the visit days.
+    let at = now;
+    const later = (hours: number) => {
+      at = new Date(at.getTime() + hours * hour);
+    };
     const deps = createVisitDeps({
       dataSource: ds,
       logger: createLogger('silent'),
-      now: () => clock,
+      now: () => at,
       notifyVisitEvent: noVisitNotifications,
     });
     const requester = await authOf(ds, v.requester);
-    const siteId = (await idOf(ds, 'SELECT id FROM sites WHERE name = ?', v.campus))!;
+    const site = (await ds.query('SELECT id, time_zone AS zone FROM sites WHERE name = ?', [
+      v.campus,
+    ])) as { id: number; zone: string }[];
+    const siteId = Number(site[0]!.id);
+    const campusZone = site[0]!.zone;
     // A Tuesday on or after the start; a week later when a biweekly pattern is off that week.
     let from = addCalendarDays(today, v.startInDays);
     while (isoWeekday(from) !== 2) from = addCalendarDays(from, 1);
+    // Asked at 09:40 campus time: two weeks before a past visit, two to four days ago for a
+    // coming one.
+    const askedOn = addCalendarDays(
+      v.startInDays < 0 ? from : today,
+      v.startInDays < 0 ? -14 : -(2 + (index % 3)),
+    );
+    at = new Date(wallTimeToInstant(askedOn, '09:40', campusZone));
+    // A visit still waiting for an answer was asked this morning, so its offer is still open.
+    if (v.outcome === 'offered') at = new Date(now.getTime() - 5 * hour);
     let created: { id: number } | null = null;
     for (let attempt = 0; attempt < 3 && !created; attempt++) {
       try {
@@ -213,15 +231,23 @@ export async function loadDemoProctoring(
     }
     const id = created!.id;
     for (const d of v.declines ?? []) {
+      later(2 + (index % 2));
       await declineOffer(deps, await authOf(ds, d.proctor), id, d.reason);
     }
     const accepting = v.proctors.find((e) => !(v.declines ?? []).some((d) => d.proctor === e));
     if (['accepted', 'completed', 'signed_off'].includes(v.outcome) && accepting) {
       const proctor = await authOf(ds, accepting);
+      later(1 + (index % 3));
       await acceptOffer(deps, proctor, id);
       if (v.trainee) {
         const trainee = (await idOf(ds, 'SELECT id FROM users WHERE email = ?', v.trainee))!;
-        for (let n = 1; n <= (v.recordedCases ?? 0); n++) {
+        const cases = v.recordedCases ?? 0;
+        for (let n = 1; n <= cases; n++) {
+          // Case n on the visit's days (spread over them), from 09:30 campus time, two hours apart.
+          const day = addCalendarDays(from, Math.floor(((n - 1) * v.days) / Math.max(cases, 1)));
+          const perDay = Math.ceil(cases / v.days);
+          const slot = (n - 1) % perDay;
+          at = new Date(Date.parse(wallTimeToInstant(day, '09:30', campusZone)) + slot * 2 * hour);
           await recordCase(deps, proctor, id, {
             caseNumber: n,
             traineeUserId: trainee,
@@ -235,12 +261,17 @@ export async function loadDemoProctoring(
                 : 'Smooth docking; clear communication with the bedside assistant.',
           });
         }
+        later(1);
         if (v.outcome === 'signed_off') await signOffTrainee(deps, proctor, id, trainee);
         if (v.outcome === 'completed') await completeVisit(deps, proctor, id);
       }
     }
     if (v.outcome === 'cancelled') {
+      later(26);
       await cancelVisit(deps, requester, id, v.reason ?? 'Plans changed.');
+    }
+    if (at.getTime() > now.getTime()) {
+      throw new Error(`demo visit ${index + 1}: a step would lie after the load instant`);
     }
     visits++;
   }

@@ -12,10 +12,12 @@ import type { Config } from '../config';
 import type { Logger } from '../logger';
 import { defaultVisitSettings, type VisitDeps, type VisitSettings } from './domain/deps';
 import { noVisitNotifications, type NotifyVisitEvent } from './domain/notifications';
+import { VisitModelSettings1765324800000 } from '../database/migrations/1765324800000-visit-model-settings';
 import {
   VisitCaseEntity,
   VisitEntity,
   VisitEventEntity,
+  VisitModelSettingEntity,
   VisitOfferEntity,
   VisitSignOffEntity,
 } from './data-access/entities';
@@ -39,6 +41,7 @@ export const visitEntities = [
   VisitEventEntity,
   VisitCaseEntity,
   VisitSignOffEntity,
+  VisitModelSettingEntity,
 ];
 
 /** Visit settings from the server configuration (`EVALON_VISIT_OFFER_HOURS`, `EVALON_VISIT_TRAVEL_DAY_KM`). */
@@ -66,13 +69,21 @@ export function createVisitDeps(input: {
     settings: { ...defaultVisitSettings, ...input.settings },
   };
 }
-export { acceptOffer, cancelVisit, declineOffer, reopenVisit, requestVisit } from './domain/offers';
+export {
+  acceptOffer,
+  cancelVisit,
+  declineOffer,
+  reopenVisit,
+  requestVisit,
+  withdrawFromVisit,
+} from './domain/offers';
 export { completeVisit, recordCase, signOffTrainee } from './domain/records';
 
 /** Proctoring visits, `/api/visits`, and the offer-deadline job. */
 export const visitsComponent: AppComponent = {
   name: 'visits',
   entities: visitEntities,
+  migrations: [VisitModelSettings1765324800000],
   routers: (ctx) => [
     visitRoutes(
       createVisitDeps({

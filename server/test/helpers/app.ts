@@ -5,7 +5,10 @@ import { loadConfig, type Config } from '../../src/config';
 import { createDataSource } from '../../src/database/data-source';
 import { createLogger } from '../../src/logger';
 import type { Mailer } from '../../src/notifications/domain/mailer';
-import { createOutboxWorker, type OutboxWorker } from '../../src/notifications/domain/outbox-worker';
+import {
+  createOutboxWorker,
+  type OutboxWorker,
+} from '../../src/notifications/domain/outbox-worker';
 import { RecordingMailer } from './recording-mailer';
 
 /** An app on this worker's database, with the pieces a test needs to look behind it. */
@@ -28,7 +31,7 @@ export interface TestApp {
  */
 export async function startTestApp(
   env: Record<string, string> = {},
-  options: { mailer?: Mailer; outboxWorker?: boolean } = {},
+  options: { mailer?: Mailer; outboxWorker?: boolean; now?: () => Date } = {},
 ): Promise<TestApp> {
   const config = loadConfig({ ...process.env, ...env });
   const dataSource = createDataSource(config.db);
@@ -36,7 +39,14 @@ export async function startTestApp(
   const mail = new RecordingMailer();
   const logger = createLogger(config.logLevel);
   const mailer = options.mailer ?? mail;
-  const app = createApp({ config, dataSource, mailer, logger });
+  // `now`: the app's clock for use cases (e.g. a visit's days having come); sessions keep real time.
+  const app = createApp({
+    config,
+    dataSource,
+    mailer,
+    logger,
+    ...(options.now ? { now: options.now } : {}),
+  });
   const worker =
     options.outboxWorker === false
       ? null

@@ -128,6 +128,20 @@ export const routes: Routes = [
         loadChildren: () => import('./features/visits/visits.routes').then((m) => m.visitsRoutes),
       },
       {
+        path: 'visit-settings',
+        canActivate: [roleGuard('fleet_manager', 'buyer')],
+        loadChildren: () =>
+          import('./features/visit-settings/visit-settings.routes').then(
+            (m) => m.visitSettingsRoutes,
+          ),
+      },
+      {
+        path: 'training',
+        canActivate: [roleGuard('clinician')],
+        loadChildren: () =>
+          import('./features/training/training.routes').then((m) => m.trainingRoutes),
+      },
+      {
         path: 'proctor',
         canActivate: [roleGuard('proctor')],
         loadChildren: () =>

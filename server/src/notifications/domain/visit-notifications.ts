@@ -8,6 +8,7 @@ import {
   visitOffered,
   visitSignedOff,
   visitUnfilled,
+  visitWithdrawn,
   type InviteAttendee,
   type LoanEmail,
   type Recipient as MessageRecipient,
@@ -65,6 +66,10 @@ async function audience(
       ids.add(data.requestedByUserId);
       if (notice.proctorUserId) ids.add(notice.proctorUserId);
       break;
+    case 'withdrawn':
+      ids.add(data.requestedByUserId);
+      if (notice.proctorUserId) ids.add(notice.proctorUserId);
+      break;
     case 'signed_off':
       await buyers();
       if (notice.signOff) ids.add(notice.signOff.traineeUserId);
@@ -114,6 +119,14 @@ function inAppWords(
         title: `Visit ${v.reference} cancelled`,
         body: `Reason: ${notice.reason ?? 'none given'}.`.slice(0, 2000),
       };
+    case 'withdrawn':
+      return {
+        title: `Visit ${v.reference}: ${proctorName} withdrew`,
+        body: `Reason: ${notice.reason ?? 'none given'}. The next proctor on the list is asked.`.slice(
+          0,
+          2000,
+        ),
+      };
     case 'signed_off':
       return {
         title: `Visit ${v.reference}: trainee signed off`,
@@ -139,9 +152,9 @@ export function createVisitNotifier(options: VisitNotifierOptions): NotifyVisitE
     const [proctor] = notice.proctorUserId ? await findPeople(m, [notice.proctorUserId]) : [];
     const proctorName = proctor?.name ?? 'The proctor';
     const attendees: InviteAttendee[] = people.map((p) => ({ name: p.name, email: p.email }));
-    const invite = (sequence: number) => ({
+    const invite = (sequence: number, only?: InviteAttendee[]) => ({
       organizer: options.organizer,
-      attendees,
+      attendees: only ?? attendees,
       sequence,
       uidDomain: options.uidDomain,
       now,
@@ -169,14 +182,32 @@ export function createVisitNotifier(options: VisitNotifierOptions): NotifyVisitE
         case 'unfilled':
           return visitUnfilled(base, to);
         case 'accepted':
-          return visitAccepted({ ...base, invite: invite(0) }, to);
+          return visitAccepted({ ...base, invite: invite(notice.inviteSequence ?? 0) }, to);
         case 'cancelled':
           return visitCancelled(
             {
               ...base,
               reason: notice.reason ?? 'No reason was given.',
               // The CANCEL is a significant revision: SEQUENCE above the REQUEST's 0.
-              ...(notice.wasAccepted ? { invite: invite(1) } : {}),
+              ...(notice.wasAccepted ? { invite: invite(notice.inviteSequence ?? 1) } : {}),
+            },
+            to,
+          );
+        case 'withdrawn':
+          return visitWithdrawn(
+            {
+              ...base,
+              proctorName,
+              reason: notice.reason ?? 'No reason was given.',
+              audience: to.email === proctor?.email ? 'proctor' : 'hospital',
+              // RFC 5546 §3.2.5: the CANCEL names only the attendee who leaves the event.
+              ...(proctor
+                ? {
+                    invite: invite(notice.inviteSequence ?? 1, [
+                      { name: proctor.name, email: proctor.email },
+                    ]),
+                  }
+                : {}),
             },
             to,
           );
@@ -189,7 +220,11 @@ export function createVisitNotifier(options: VisitNotifierOptions): NotifyVisitE
     };
     // The same event may happen to a visit more than once (two declines by different proctors).
     const occurrence =
-      notice.event === 'declined' || notice.event === 'expired' || notice.event === 'offered'
+      notice.event === 'declined' ||
+      notice.event === 'expired' ||
+      notice.event === 'offered' ||
+      notice.event === 'withdrawn' ||
+      notice.event === 'accepted'
         ? `:${notice.proctorUserId ?? 0}`
         : notice.event === 'signed_off'
           ? `:${notice.signOff?.traineeUserId ?? 0}`

@@ -87,15 +87,22 @@ export function proctorRoutes(deps: ProctorDeps, catalogue: CatalogueEntry[]): A
     {
       method: 'get',
       path: '/me/availability/preview',
-      summary: 'The next 8 weeks, day by day, as the candidate search sees them',
+      summary: 'The next 8 weeks (or one month), day by day, as the candidate search sees them',
       access: { roles: ['proctor'] },
+      query: z.object({
+        month: z
+          .string()
+          .regex(/^(20\d\d)-(0[1-9]|1[0-2])$/, 'Give the month as YYYY-MM (2000–2099).')
+          .optional(),
+      }),
       responses: {
         200: { description: 'Days.', schema: availabilityPreview },
         404: error('No profile yet.'),
+        400: error('`month` is not YYYY-MM.'),
       },
     },
-    async ({ req, res }) => {
-      res.json(await previewMyAvailability(deps, currentAuth(req)));
+    async ({ req, res, query }) => {
+      res.json(await previewMyAvailability(deps, currentAuth(req), query.month));
     },
   );
 

@@ -17,6 +17,8 @@ export const previewWeeks = 8;
 export async function previewMyAvailability(
   deps: ProctorDeps,
   auth: AuthContext,
+  /** `YYYY-MM`: that calendar month instead of the next 8 weeks (the proctor's calendar). */
+  month?: string,
 ): Promise<{
   timeZone: string;
   days: { date: string; available: boolean; why: string | null }[];
@@ -25,8 +27,15 @@ export async function previewMyAvailability(
   const m = deps.dataSource.manager;
   const profile = await findProfile(m, auth.user.id);
   if (!profile) throw AppError.notFound('profile_not_found', 'Save your proctor profile first.');
-  const from = toSiteDate(deps.now(), profile.homeTimeZone);
-  const to = addCalendarDays(from, previewWeeks * 7 - 1);
+  let from = toSiteDate(deps.now(), profile.homeTimeZone);
+  let to = addCalendarDays(from, previewWeeks * 7 - 1);
+  if (month) {
+    from = `${month}-01`;
+    // The last day: the day before the first of the next month.
+    const [y, mo] = month.split('-').map(Number) as [number, number];
+    const next = mo === 12 ? `${y + 1}-01-01` : `${y}-${String(mo + 1).padStart(2, '0')}-01`;
+    to = addCalendarDays(next, -1);
+  }
   const busy = await findBusyRanges(m, [auth.user.id]);
   const days = availabilityDays(profile.availability, profile.homeTimeZone, { from, to });
   return {

@@ -9,10 +9,16 @@ import {
   id,
   reasonRequest,
   signOffInput,
+  trainingRecord,
   visitList,
   visitParams,
   visitQuery,
   visitResponse,
+  withdrawVisitRequest,
+  lenderVisitSettings,
+  modelMinimumRequest,
+  hospitalVisitSettings,
+  signOffThresholdRequest,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
@@ -24,8 +30,18 @@ import {
   declineOffer,
   reopenVisit,
   requestVisit,
+  withdrawFromVisit,
 } from '../domain/offers';
 import { getVisit, listVisits } from '../domain/queries';
+import { trainingRecordOf } from '../domain/training';
+import {
+  checkHospitalManager,
+  checkModelManager,
+  hospitalSettings,
+  lenderSettings,
+  setHospitalSignOffThreshold,
+  setModelMinimumSupervisedCases,
+} from '../domain/settings';
 import { completeVisit, readSignOffPdf, recordCase, signOffTrainee } from '../domain/records';
 
 const error = (description: string) => ({ description, schema: errorBody });
@@ -58,6 +74,130 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
     },
     async ({ req, res, query }) => {
       res.json({ items: await listCandidates(deps, currentAuth(req), query) });
+    },
+  );
+
+  const settingsErrors = {
+    403: error('You do not manage this organisation.'),
+    404: error('No such lender, hospital or model.'),
+  };
+
+  api.route(
+    {
+      method: 'get',
+      path: '/settings/lenders/:lenderId',
+      summary: 'A lender’s models with the minimum supervised cases a proctor needs on each',
+      access: { roles: ['fleet_manager', 'admin'] },
+      params: z.object({ lenderId: id }),
+      responses: {
+        200: { description: 'The settings.', schema: lenderVisitSettings },
+        ...settingsErrors,
+      },
+    },
+    async ({ req, res, params }) => {
+      res.json(await lenderSettings(deps, currentAuth(req), params.lenderId));
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/settings/models/:modelId',
+      summary: 'Set a model’s minimum supervised cases (0–500; null: the lender’s default)',
+      description: 'Used by matching for every new candidate list and offer. Audited.',
+      access: { roles: ['fleet_manager', 'admin'] },
+      params: z.object({ modelId: id }),
+      scope: (req, params) => checkModelManager(deps, currentAuth(req), params.modelId),
+      body: modelMinimumRequest,
+      responses: {
+        200: {
+          description: 'The lender’s settings after the change.',
+          schema: lenderVisitSettings,
+        },
+        ...settingsErrors,
+        422: error('Not a whole number from 0 to 500.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json(
+        await setModelMinimumSupervisedCases(
+          deps,
+          currentAuth(req),
+          params.modelId,
+          body.minSupervisedCases,
+        ),
+      );
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/settings/hospitals/:hospitalId',
+      summary: 'A hospital’s sign-off threshold',
+      access: { roles: ['buyer', 'admin'] },
+      params: z.object({ hospitalId: id }),
+      responses: {
+        200: { description: 'The settings.', schema: hospitalVisitSettings },
+        ...settingsErrors,
+      },
+    },
+    async ({ req, res, params }) => {
+      res.json(await hospitalSettings(deps, currentAuth(req), params.hospitalId));
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/settings/hospitals/:hospitalId',
+      summary: 'Set the hospital’s sign-off threshold (1–10 cases performed under supervision)',
+      description:
+        'Used for every later sign-off; sign-offs already given keep theirs. Audited. The range ' +
+        'follows a published survey of 42 hospital policies (1–10 proctored cases, mean 3.24).',
+      access: { roles: ['buyer', 'admin'] },
+      params: z.object({ hospitalId: id }),
+      scope: (req, params) => checkHospitalManager(deps, currentAuth(req), params.hospitalId),
+      body: signOffThresholdRequest,
+      responses: {
+        200: { description: 'The settings after the change.', schema: hospitalVisitSettings },
+        ...settingsErrors,
+        422: error('Not a whole number from 1 to 10.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json(
+        await setHospitalSignOffThreshold(
+          deps,
+          currentAuth(req),
+          params.hospitalId,
+          body.signOffThreshold,
+        ),
+      );
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/training-record',
+      summary: 'Your own training record as a trainee (clinicians)',
+      description:
+        'Visits on which you were a trainee with your cases (role, ratings) and sign-offs, and ' +
+        'per hospital and model your cases performed under supervision against the hospital’s ' +
+        'sign-off threshold. Only your own record. Evalon documents; privileging remains the ' +
+        'hospital’s decision.',
+      access: { roles: ['clinician'] },
+      responses: {
+        200: {
+          description: 'Your record (empty lists when you have no cases yet).',
+          schema: trainingRecord,
+        },
+        403: error('Not a clinician.'),
+      },
+    },
+    async ({ req, res }) => {
+      res.json(await trainingRecordOf(deps.dataSource.manager, currentAuth(req)));
     },
   );
 
@@ -155,6 +295,34 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
     },
     async ({ req, res, params, body }) => {
       res.json({ visit: await declineOffer(deps, currentAuth(req), params.id, body.reason) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/:id/withdraw',
+      summary: 'Withdraw from a visit you accepted, before its first day, with a reason',
+      description:
+        'Your offer ends as withdrawn and a calendar CANCEL (RFC 5546) goes to you; the ' +
+        'hospital is told and the next candidate on its list is offered, as after a decline. ' +
+        'From the first visit day (campus time zone) on it is refused with 409 `visit_started`.',
+      access: { roles: ['proctor'] },
+      params: visitParams,
+      body: withdrawVisitRequest,
+      responses: {
+        200: {
+          description: 'Withdrawn; the visit is offered again (or unfilled).',
+          schema: visitResponse,
+        },
+        403: error('Not the visit’s proctor.'),
+        404: error('No such visit (or not yours).'),
+        409: error('`visit_started`, `illegal_transition`.'),
+        422: error('A reason of at least 10 characters is required.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json({ visit: await withdrawFromVisit(deps, currentAuth(req), params.id, body.reason) });
     },
   );
 

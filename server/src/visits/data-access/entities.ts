@@ -378,3 +378,41 @@ export const VisitSignOffEntity = new EntitySchema<VisitSignOffRow>({
     },
   ],
 });
+
+/** A row of `visit_model_settings`: a lender's per-model minimum supervised cases. */
+export interface VisitModelSettingRow {
+  modelId: number;
+  minSupervisedCases: number;
+  updatedByUserId: number | null;
+  updatedAt: Date;
+}
+
+export const VisitModelSettingEntity = new EntitySchema<VisitModelSettingRow>({
+  name: 'VisitModelSetting',
+  tableName: 'visit_model_settings',
+  columns: {
+    modelId: { type: 'int', unsigned: true, primary: true, name: 'model_id' },
+    minSupervisedCases: { type: 'smallint', unsigned: true, name: 'min_supervised_cases' },
+    updatedByUserId: refColumn('updated_by_user_id', true),
+    updatedAt: instantColumn('updated_at'),
+  },
+  indices: [{ name: 'ix_visit_model_settings_user', columns: ['updatedByUserId'] }],
+  foreignKeys: [
+    {
+      name: 'fk_visit_model_settings_model',
+      target: 'Model',
+      columnNames: ['modelId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_visit_model_settings_user',
+      target: 'User',
+      columnNames: ['updatedByUserId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
+});

@@ -192,6 +192,21 @@ export async function listVisitViews(
   return rows.map(toView);
 }
 
+/** Visits on which the person is a trainee (has a case or a sign-off), newest first. */
+export async function listTraineeVisitViews(
+  m: EntityManager,
+  traineeUserId: number,
+): Promise<VisitView[]> {
+  const rows: Record<string, unknown>[] = await m.query(
+    `SELECT ${viewColumns} FROM visits v ${viewJoins}
+      WHERE v.id IN (SELECT c.visit_id FROM visit_cases c WHERE c.trainee_user_id = ?)
+         OR v.id IN (SELECT so.visit_id FROM visit_sign_offs so WHERE so.trainee_user_id = ?)
+      ORDER BY v.visit_from DESC, v.id DESC LIMIT 200`,
+    [traineeUserId, traineeUserId],
+  );
+  return rows.map(toView);
+}
+
 /** Sets fields of a visit. */
 export async function updateVisit(
   m: EntityManager,
@@ -312,6 +327,19 @@ export async function closeQueuedOffers(
     `UPDATE visit_offers SET state = ? WHERE visit_id = ? AND state IN ('queued', 'offered')`,
     [state, visitId],
   );
+}
+
+/**
+ * Puts back in the queue the candidates an acceptance passed over (closed as `skipped` without a
+ * reason and never offered), so a withdrawal offers the visit to the next of them.
+ */
+export async function requeuePassedOver(m: EntityManager, visitId: number): Promise<number> {
+  const result: { affectedRows?: number } = await m.query(
+    `UPDATE visit_offers SET state = 'queued'
+      WHERE visit_id = ? AND state = 'skipped' AND reason IS NULL AND offered_at IS NULL`,
+    [visitId],
+  );
+  return Number(result.affectedRows ?? 0);
 }
 
 /** When each proctor was last offered a visit (the ranking spreads the work). */
@@ -561,15 +589,19 @@ export async function findCampus(m: EntityManager, siteId: number): Promise<Camp
   };
 }
 
-/** A model with its lender's minimum supervised cases for proctors. */
+/**
+ * A model with the minimum supervised cases for its proctors: the lender's per-model setting,
+ * else the lender's default, else 20.
+ */
 export async function findModelSettings(
   m: EntityManager,
   modelId: number,
 ): Promise<{ id: number; name: string; lenderId: number; minSupervisedCases: number } | null> {
   const rows: Record<string, unknown>[] = await m.query(
     `SELECT mo.id, mo.name, mo.lender_id AS lenderId,
-            COALESCE(ls.min_supervised_cases, 20) AS minCases
+            COALESCE(vms.min_supervised_cases, ls.min_supervised_cases, 20) AS minCases
        FROM models mo LEFT JOIN lender_settings ls ON ls.organisation_id = mo.lender_id
+       LEFT JOIN visit_model_settings vms ON vms.model_id = mo.id
       WHERE mo.id = ?`,
     [modelId],
   );
@@ -631,4 +663,96 @@ export async function candidateDataVersion(m: EntityManager): Promise<string> {
             (SELECT MAX(updated_at) FROM users) AS users`,
   );
   return JSON.stringify(row);
+}
+
+/** A lender's models with their own minimum (null: the lender's default applies). */
+export async function findLenderModelMinimums(
+  m: EntityManager,
+  lenderId: number,
+): Promise<{
+  lenderDefault: number;
+  models: { modelId: number; name: string; own: number | null }[];
+}> {
+  const [def]: Record<string, unknown>[] = await m.query(
+    'SELECT min_supervised_cases AS n FROM lender_settings WHERE organisation_id = ?',
+    [lenderId],
+  );
+  const rows: Record<string, unknown>[] = await m.query(
+    `SELECT mo.id, mo.name, vms.min_supervised_cases AS own
+       FROM models mo LEFT JOIN visit_model_settings vms ON vms.model_id = mo.id
+      WHERE mo.lender_id = ? ORDER BY mo.name, mo.id`,
+    [lenderId],
+  );
+  return {
+    lenderDefault: def ? Number(def.n) : 20,
+    models: rows.map((r) => ({ modelId: Number(r.id), name: String(r.name), own: num(r.own) })),
+  };
+}
+
+/** Sets (or, with null, removes) a model's own minimum supervised cases. */
+export async function setModelMinimum(
+  m: EntityManager,
+  modelId: number,
+  value: number | null,
+  userId: number,
+  now: Date,
+): Promise<void> {
+  if (value === null) {
+    await m.query('DELETE FROM visit_model_settings WHERE model_id = ?', [modelId]);
+    return;
+  }
+  await m.query(
+    `INSERT INTO visit_model_settings (model_id, min_supervised_cases, updated_by_user_id, updated_at)
+     VALUES (?, ?, ?, ?)
+     ON DUPLICATE KEY UPDATE min_supervised_cases = VALUES(min_supervised_cases),
+       updated_by_user_id = VALUES(updated_by_user_id), updated_at = VALUES(updated_at)`,
+    [modelId, value, userId, now],
+  );
+}
+
+/** An organisation's kind, name and sign-off threshold (locked when `lock`). */
+export async function findOrganisationThreshold(
+  m: EntityManager,
+  organisationId: number,
+  lock = false,
+): Promise<{ id: number; name: string; kind: string; signOffThreshold: number } | null> {
+  const rows: Record<string, unknown>[] = await m.query(
+    `SELECT id, name, kind, sign_off_threshold AS threshold FROM organisations WHERE id = ?
+      ${lock ? 'FOR UPDATE' : ''}`,
+    [organisationId],
+  );
+  const r = rows[0];
+  return r
+    ? {
+        id: Number(r.id),
+        name: String(r.name),
+        kind: String(r.kind),
+        signOffThreshold: Number(r.threshold),
+      }
+    : null;
+}
+
+/** Sets a hospital's sign-off threshold. */
+export async function setSignOffThreshold(
+  m: EntityManager,
+  organisationId: number,
+  value: number,
+): Promise<void> {
+  await m.query('UPDATE organisations SET sign_off_threshold = ? WHERE id = ?', [
+    value,
+    organisationId,
+  ]);
+}
+
+/** A model's lender, locked for a settings change. */
+export async function lockModel(
+  m: EntityManager,
+  modelId: number,
+): Promise<{ id: number; name: string; lenderId: number } | null> {
+  const rows: Record<string, unknown>[] = await m.query(
+    'SELECT id, name, lender_id AS lenderId FROM models WHERE id = ? FOR UPDATE',
+    [modelId],
+  );
+  const r = rows[0];
+  return r ? { id: Number(r.id), name: String(r.name), lenderId: Number(r.lenderId) } : null;
 }

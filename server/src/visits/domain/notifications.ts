@@ -8,6 +8,7 @@ export const visitNotificationEvents = [
   'unfilled',
   'accepted',
   'cancelled',
+  'withdrawn',
   'signed_off',
 ] as const;
 export type VisitNotificationEvent = (typeof visitNotificationEvents)[number];
@@ -24,6 +25,12 @@ export interface VisitEventNotice {
   reason?: string | null;
   /** Whether the visit had been accepted before it was cancelled (then a CANCEL invite goes out). */
   wasAccepted?: boolean;
+  /**
+   * SEQUENCE of the calendar invite this event sends (RFC 5545 §3.8.7.4): `accepted` REQUEST,
+   * `cancelled` and `withdrawn` CANCEL. Each withdrawal raises it, so a later REQUEST to the
+   * next proctor supersedes the earlier one. Absent: 0 for a REQUEST, 1 for a CANCEL.
+   */
+  inviteSequence?: number;
   /** `signed_off`: the trainee and the one-page record. */
   signOff?: { traineeUserId: number; pdf: Buffer; fileName: string };
 }

@@ -1,6 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { CreateVisitRequest, VisitDetail } from '@evalon/contracts';
 import { toSiteDate } from '@evalon/scheduling';
+import { insertAuditEvent } from '../../audit';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { findProfile } from '../../proctors';
@@ -14,6 +15,7 @@ import {
   insertOffers,
   insertVisit,
   insertVisitEvent,
+  requeuePassedOver,
   setOfferState,
   updateVisit,
 } from '../data-access/visit-repository';
@@ -405,11 +407,14 @@ export async function acceptOffer(
     }
     await setOfferState(m, offer.id, 'accepted', { answeredAt: now });
     await closeQueuedOffers(m, visit.id, 'skipped');
+    // After a withdrawal the REQUEST must supersede the CANCEL already sent (RFC 5545 §3.8.7.4).
+    const inviteSequence = visit.inviteSequence === 0 ? 0 : visit.inviteSequence + 1;
     await updateVisit(
       m,
       visit.id,
       {
         state: 'accepted',
+        inviteSequence,
         proctorUserId: auth.user.id,
         busyFrom: match.footprint.from,
         busyTo: match.footprint.to,
@@ -437,6 +442,7 @@ export async function acceptOffer(
       event: 'accepted',
       actorUserId: auth.user.id,
       proctorUserId: auth.user.id,
+      inviteSequence,
     });
   });
   return getVisit(deps.dataSource.manager, auth, visitId);
@@ -562,8 +568,14 @@ export async function cancelVisit(
   await deps.dataSource.transaction('READ COMMITTED', async (m) => {
     const { visit, offers } = await lockRequesterVisit(m, auth, visitId, 'cancel');
     const live = offers.find((o) => o.state === 'offered');
+    const inviteSequence = visit.inviteSequence + 1;
     await closeQueuedOffers(m, visit.id, 'withdrawn');
-    await updateVisit(m, visit.id, { state: 'cancelled' }, now);
+    await updateVisit(
+      m,
+      visit.id,
+      { state: 'cancelled', ...(visit.state === 'accepted' ? { inviteSequence } : {}) },
+      now,
+    );
     await insertVisitEvent(
       m,
       {
@@ -584,8 +596,102 @@ export async function cancelVisit(
       actorUserId: auth.user.id,
       reason,
       wasAccepted: visit.state === 'accepted',
+      inviteSequence,
       ...(proctorUserId ? { proctorUserId } : {}),
     });
+  });
+  return getVisit(deps.dataSource.manager, auth, visitId);
+}
+
+/**
+ * The accepted proctor withdraws before the visit's first day (in the campus's zone) with a
+ * reason: their offer ends as `withdrawn`, the visit's days leave their calendar (a CANCEL goes
+ * to them), the requester is told, and the candidates the acceptance passed over are offered in
+ * turn, as after a decline (or the visit is `unfilled`). From the first visit day on it is
+ * refused with 409: by then the hospital plans around the proctor and must cancel or talk to them.
+ */
+export async function withdrawFromVisit(
+  deps: VisitDeps,
+  auth: AuthContext,
+  visitId: number,
+  reason: string,
+): Promise<VisitDetail> {
+  const now = deps.now();
+  await deps.dataSource.transaction('READ COMMITTED', async (m) => {
+    // Same lock order as answering an offer: the proctor's profile row, then the visit row.
+    await findProfile(m, auth.user.id, true);
+    const visit = await findVisit(m, visitId, true);
+    const offers = visit ? await findOffers(m, visitId) : [];
+    if (!visit || !canSeeVisit(auth, visit, offers)) {
+      throw AppError.notFound('visit_not_found', 'There is no such visit.');
+    }
+    const mine = offers.find((o) => o.proctorUserId === auth.user.id && o.state === 'accepted');
+    if (visit.proctorUserId !== auth.user.id || !mine) {
+      throw AppError.forbidden('forbidden', 'Only the visit’s proctor can withdraw from it.');
+    }
+    if (!canDo(visit.state, 'withdraw')) {
+      throw AppError.conflict('illegal_transition', illegalMessage(visit.state, 'withdraw'), {
+        state: visit.state,
+      });
+    }
+    const today = toSiteDate(now, visit.siteTimeZone);
+    if (today >= visit.visitFrom) {
+      throw AppError.conflict(
+        'visit_started',
+        `The visit started on ${visit.visitFrom} (${visit.siteTimeZone}); you can no longer withdraw. Ask the hospital to cancel it if you cannot continue.`,
+        { visitFrom: visit.visitFrom, today },
+      );
+    }
+    const inviteSequence = visit.inviteSequence + 1;
+    await setOfferState(m, mine.id, 'withdrawn', { answeredAt: now, reason });
+    // Told while the visit still carries the proctor's days, so the CANCEL covers the travel days.
+    await deps.notifyVisitEvent(m, {
+      visitId: visit.id,
+      event: 'withdrawn',
+      actorUserId: auth.user.id,
+      proctorUserId: auth.user.id,
+      reason,
+      inviteSequence,
+    });
+    await updateVisit(
+      m,
+      visit.id,
+      {
+        state: 'offered',
+        proctorUserId: null,
+        busyFrom: null,
+        busyTo: null,
+        travelDays: null,
+        feeAmount: null,
+        feeCurrency: null,
+        inviteSequence,
+      },
+      now,
+    );
+    await insertVisitEvent(
+      m,
+      {
+        visitId: visit.id,
+        actorUserId: auth.user.id,
+        kind: 'withdrawn',
+        fromState: 'accepted',
+        toState: 'offered',
+        proctorUserId: auth.user.id,
+        reason,
+      },
+      now,
+    );
+    await insertAuditEvent(m, {
+      actorUserId: auth.user.id,
+      organisationId: visit.hospitalId,
+      action: 'visit.proctor_withdrew',
+      subject: `visit:${visit.id}`,
+      detail: { reason, visitFrom: visit.visitFrom, visitTo: visit.visitTo },
+      at: now,
+    });
+    await requeuePassedOver(m, visit.id);
+    const fresh = (await findVisit(m, visit.id, true))!;
+    await offerNext(m, deps, fresh, null, now);
   });
   return getVisit(deps.dataSource.manager, auth, visitId);
 }

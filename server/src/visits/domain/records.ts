@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { competencyLabels, type CaseRecordInput, type VisitDetail } from '@evalon/contracts';
+import { toSiteDate } from '@evalon/scheduling';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { addRecordedCases } from '../../proctors';
@@ -38,6 +39,13 @@ async function lockAsProctor(
   if (visit.proctorUserId !== auth.user.id) {
     throw AppError.forbidden('forbidden', 'Only the visit’s proctor can do this.');
   }
+  if (visit.state === 'cancelled') {
+    throw AppError.conflict(
+      'visit_cancelled',
+      'The hospital cancelled this visit; nothing more can be recorded on it.',
+      { state: visit.state },
+    );
+  }
   if (!canDo(visit.state, action)) {
     throw AppError.conflict('illegal_transition', illegalMessage(visit.state, action), {
       state: visit.state,
@@ -73,6 +81,15 @@ export async function recordCase(
   const now = deps.now();
   await deps.dataSource.transaction('READ COMMITTED', async (m) => {
     const visit = await lockAsProctor(m, auth, visitId, 'record_case');
+    // Cases happen on the visit's days: none before the first day (the campus's calendar).
+    const today = toSiteDate(now, visit.siteTimeZone);
+    if (today < visit.visitFrom) {
+      throw AppError.field(
+        'before_visit',
+        'caseNumber',
+        `Cases can be recorded from ${visit.visitFrom}, the visit’s first day (${visit.siteTimeZone}).`,
+      );
+    }
     await checkTrainee(m, visit, input.traineeUserId);
     if (input.caseNumber > visit.cases) {
       throw AppError.field(

@@ -9,6 +9,7 @@ export type VisitAction =
   | 'exhaust'
   | 'reopen'
   | 'cancel'
+  | 'withdraw'
   | 'complete'
   | 'sign_off'
   | 'record_case';
@@ -22,7 +23,8 @@ export type VisitAction =
 const allowed: Record<VisitState, readonly VisitAction[]> = {
   requested: ['offer', 'exhaust', 'cancel'],
   offered: ['accept', 'decline', 'expire', 'offer', 'exhaust', 'cancel'],
-  accepted: ['cancel', 'complete', 'sign_off', 'record_case'],
+  // `withdraw`: the accepted proctor steps back before the first day; the visit is offered again.
+  accepted: ['cancel', 'withdraw', 'complete', 'sign_off', 'record_case'],
   completed: ['sign_off', 'record_case'],
   signed_off: ['sign_off', 'record_case'],
   cancelled: [],
@@ -44,6 +46,7 @@ export function illegalMessage(state: VisitState, action: VisitAction): string {
     exhaust: 'closed',
     reopen: 'offered again',
     cancel: 'cancelled',
+    withdraw: 'withdrawn from',
     complete: 'completed',
     sign_off: 'signed off',
     record_case: 'given case records',

@@ -5,9 +5,23 @@ const labels = (roles: Parameters<typeof navigationFor>[0]) =>
 
 describe('navigationFor', () => {
   it('gives each role its own pages, Home first and Members for managing roles', () => {
-    expect(labels(['buyer'])).toEqual(['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members']);
-    expect(labels(['clinician'])).toEqual(['Home', 'Loans', 'Proctoring', 'Schedule', 'Case log']);
-    expect(labels(['proctor'])).toEqual(['Home', 'Visit offers', 'Credentials']);
+    expect(labels(['buyer'])).toEqual([
+      'Home',
+      'Find equipment',
+      'Loans',
+      'Proctoring',
+      'Visit settings',
+      'Members',
+    ]);
+    expect(labels(['clinician'])).toEqual([
+      'Home',
+      'Loans',
+      'Proctoring',
+      'My training',
+      'Schedule',
+      'Case log',
+    ]);
+    expect(labels(['proctor'])).toEqual(['Home', 'Visit offers', 'Credentials', 'Calendar']);
     expect(labels(['coordinator'])).toEqual(['Home', 'Shipments', 'Units']);
     expect(labels(['fleet_manager'])).toEqual([
       'Home',
@@ -16,6 +30,7 @@ describe('navigationFor', () => {
       'Approvals',
       'Credit agreements',
       'Units',
+      'Visit settings',
       'Members',
     ]);
     expect(labels(['admin'])).toEqual([
@@ -33,8 +48,10 @@ describe('navigationFor', () => {
       'Find equipment',
       'Loans',
       'Proctoring',
+      'My training',
       'Schedule',
       'Case log',
+      'Visit settings',
       'Members',
     ]);
   });

@@ -77,6 +77,23 @@ export const builtDestinations: readonly Destination[] = [
       'Ask for an experienced proctor for your surgeons’ first cases, see who was asked and who accepted, and the cases they signed off.',
   },
   {
+    path: 'training',
+    label: 'My training',
+    icon: 'school',
+    roles: ['clinician'],
+    summary:
+      'See your cases on proctored visits, your count towards your hospital’s sign-off threshold and your sign-off records.',
+  },
+  {
+    path: 'visit-settings',
+    label: 'Visit settings',
+    icon: 'tune',
+    // Lenders set the minimum supervised cases per model; hospitals the sign-off threshold.
+    roles: ['fleet_manager', 'buyer'],
+    summary:
+      'Set the supervised cases a proctor needs on each of your models, or how many cases your trainees perform under supervision before a sign-off.',
+  },
+  {
     path: 'proctor',
     label: 'Visit offers',
     icon: 'mark_email_unread',
@@ -91,6 +108,14 @@ export const builtDestinations: readonly Destination[] = [
     roles: ['proctor'],
     summary:
       'Keep your licences, credentials and availability current so hospitals can ask you for the right visits.',
+  },
+  {
+    path: 'proctor/calendar',
+    label: 'Calendar',
+    icon: 'calendar_month',
+    roles: ['proctor'],
+    summary:
+      'See your accepted visits month by month, with their travel days and your availability.',
   },
   {
     path: 'shipments',
@@ -167,15 +192,18 @@ const navigationOrder: readonly string[] = [
   'equipment',
   'loans',
   'visits',
+  'training',
   'schedule',
   'case-log',
   'proctor',
   'proctor/credentials',
+  'proctor/calendar',
   'shipments',
   'catalog',
   'approvals',
   'credit-agreements',
   'units',
+  'visit-settings',
   'organisations',
   'audit',
   'outbox',
@@ -202,13 +230,16 @@ export function hasAnyRole(held: readonly Role[], wanted: readonly Role[]): bool
  */
 export function navigationFor(roles: readonly Role[], organisationId: number | null): NavEntry[] {
   const entries: NavEntry[] = [{ label: 'Home', icon: 'home', link: '/', exact: true }];
-  for (const destination of destinationsInOrder()) {
+  const all = destinationsInOrder();
+  for (const destination of all) {
     if (hasAnyRole(roles, destination.roles)) {
       entries.push({
         label: destination.label,
         icon: destination.icon,
         link: `/${destination.path}`,
-        exact: false,
+        // A page with pages of its own in the navigation (Visit offers under /proctor) is
+        // active only on its own address, so one link is highlighted at a time.
+        exact: all.some((other) => other.path.startsWith(`${destination.path}/`)),
       });
     }
   }

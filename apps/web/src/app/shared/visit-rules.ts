@@ -21,6 +21,7 @@ export const visitEventLabels: Readonly<Partial<Record<string, string>>> = {
   unfilled: 'No proctor left',
   accepted: 'Accepted',
   cancelled: 'Cancelled',
+  withdrawn: 'Proctor withdrew',
   case_recorded: 'Case recorded',
   completed: 'Completed',
   signed_off: 'Signed off',

@@ -50,7 +50,14 @@ describe('Shell', () => {
 
   it('shows a buyer their pages and Members', async () => {
     await render([membership('velmora', 'buyer')]);
-    expect(await navLabels()).toEqual(['Home', 'Find equipment', 'Loans', 'Proctoring', 'Members']);
+    expect(await navLabels()).toEqual([
+      'Home',
+      'Find equipment',
+      'Loans',
+      'Proctoring',
+      'Visit settings',
+      'Members',
+    ]);
   });
 
   it('shows a coordinator Home, Shipments and (read-only) Units, without Members', async () => {
@@ -95,6 +102,7 @@ describe('Shell', () => {
       'Approvals',
       'Credit agreements',
       'Units',
+      'Visit settings',
       'Members',
     ]);
   });

@@ -33,6 +33,7 @@ import {
   loanProgress,
 } from '../../shared/milestone-timeline/milestone-timeline';
 import { PageHeader } from '../../shared/page-header/page-header';
+import { LoanEvidence } from '../evidence/loan-evidence';
 import { LoanShipments } from '../shipments/loan-shipments';
 import { CancelDialog, CancelDialogData } from './cancel-dialog';
 import { DepositReturn, DepositSection } from './deposit-section';
@@ -82,6 +83,7 @@ export function nextStepText(loan: Loan): string {
     DepositSection,
     EmptyState,
     LoanDocuments,
+    LoanEvidence,
     LoanPaymentsCard,
     LoanShipments,
     LoanStateChip,
@@ -199,6 +201,22 @@ export class LoanPage implements OnInit {
   protected readonly canCancel = computed(
     () => this.loan()?.allowedActions?.includes('cancel') ?? false,
   );
+  /**
+   * Whether the evaluation cases show: for the hospital's people and the admin, once the
+   * platform was delivered (the lender does not see case records).
+   */
+  protected readonly showEvidence = computed(() => {
+    const loan = this.loan();
+    if (!loan || !['delivered', 'returning', 'returned', 'closed'].includes(loan.state)) {
+      return false;
+    }
+    const user = this.sessionStore.user();
+    return !!user?.memberships.some(
+      (m) =>
+        m.role === 'admin' ||
+        (m.organisationId === loan.hospitalId && (m.role === 'buyer' || m.role === 'clinician')),
+    );
+  });
   protected readonly stopped = computed(() => {
     const loan = this.loan();
     return loan ? stoppedLoanStates.includes(loan.state) : false;

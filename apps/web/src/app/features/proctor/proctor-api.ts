@@ -38,6 +38,14 @@ export class ProctorApi {
       .pipe(map((r) => r.profile));
   }
 
+  /** One calendar month (`YYYY-MM`) of availability, as the candidate search reads it. */
+  month(month: string): Observable<{ timeZone: string; days: PreviewDay[] }> {
+    return this.http.get<{ timeZone: string; days: PreviewDay[] }>(
+      '/api/proctors/me/availability/preview',
+      { params: { month } },
+    );
+  }
+
   preview(): Observable<{ timeZone: string; days: PreviewDay[] }> {
     return this.http.get<{ timeZone: string; days: PreviewDay[] }>(
       '/api/proctors/me/availability/preview',

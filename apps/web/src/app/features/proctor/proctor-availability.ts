@@ -62,6 +62,53 @@ const whyWords: Partial<Record<string, string>> = {
       <button mat-button type="button" (click)="addRule()">
         <mat-icon>add</mat-icon> Add a rule
       </button>
+      <h2>Exceptions</h2>
+      <p class="hint">
+        Days taken out of the pattern, one-off extra days you can work, and recurring exceptions (a
+        DTSTART and an RRULE line). Exceptions win over extra days, as in RFC 5545.
+      </p>
+      @for (e of exceptions(); track $index; let i = $index) {
+        <div class="exception" [attr.data-kind]="e.kind">
+          @if (e.kind === 'rule') {
+            <textarea
+              rows="2"
+              [ngModel]="e.rule"
+              (ngModelChange)="setException(i, $event)"
+              [attr.aria-label]="'Exception rule ' + (i + 1)"
+            ></textarea>
+          } @else {
+            <span class="kind">{{ e.kind === 'extra' ? 'Extra day' : 'Day off' }}</span>
+            <input
+              type="date"
+              [ngModel]="e.date"
+              (ngModelChange)="setException(i, $event)"
+              [attr.aria-label]="(e.kind === 'extra' ? 'Extra day ' : 'Day off ') + (i + 1)"
+            />
+          }
+          <button
+            mat-icon-button
+            type="button"
+            (click)="removeException(i)"
+            [attr.aria-label]="'Remove exception ' + (i + 1)"
+          >
+            <mat-icon>delete</mat-icon>
+          </button>
+          @if (exceptionError(i); as e) {
+            <p class="error">{{ e }}</p>
+          }
+        </div>
+      }
+      <div class="adders">
+        <button mat-button type="button" (click)="addException('date')">
+          <mat-icon>event_busy</mat-icon> Add a day off
+        </button>
+        <button mat-button type="button" (click)="addException('extra')">
+          <mat-icon>event_available</mat-icon> Add an extra day
+        </button>
+        <button mat-button type="button" (click)="addException('rule')">
+          <mat-icon>event_repeat</mat-icon> Add a recurring exception
+        </button>
+      </div>
       <h2>Blackout days</h2>
       @for (b of blackouts(); track $index; let i = $index) {
         <div class="blackout">
@@ -85,6 +132,9 @@ const whyWords: Partial<Record<string, string>> = {
           >
             <mat-icon>delete</mat-icon>
           </button>
+          @if (fieldErrors()['blackouts.' + i + '.to']; as e) {
+            <p class="error">{{ e }}</p>
+          }
         </div>
       }
       <button mat-button type="button" (click)="addBlackout()">
@@ -118,7 +168,9 @@ const whyWords: Partial<Record<string, string>> = {
       </div>
       <p class="legend">
         <span class="day on">1</span> available <span class="day" data-why="visit">1</span> accepted
-        visit <span class="day">1</span> not available
+        visit <span class="day" data-why="exception">1</span> day off
+        <span class="day" data-why="blackout">1</span> blackout <span class="day">1</span> not in
+        your pattern
       </p>
     </mat-card>
   `,
@@ -145,10 +197,48 @@ const whyWords: Partial<Record<string, string>> = {
       border-radius: 8px;
       border: 1px solid var(--mat-sys-outline);
     }
-    .blackout {
+    .blackout,
+    .exception {
       display: flex;
+      flex-wrap: wrap;
       gap: 8px;
       align-items: center;
+      margin-bottom: 4px;
+    }
+    .exception textarea {
+      flex: 1;
+      font-family: monospace;
+      padding: 8px;
+      border-radius: 8px;
+      border: 1px solid var(--mat-sys-outline);
+    }
+    .exception .kind {
+      min-width: 6rem;
+      font: var(--mat-sys-label-large);
+    }
+    .exception[data-kind='extra'] .kind {
+      color: var(--mat-sys-primary);
+    }
+    .exception .error,
+    .blackout .error {
+      flex-basis: 100%;
+    }
+    .hint {
+      color: var(--mat-sys-on-surface-variant);
+      margin: 0 0 8px;
+    }
+    .adders {
+      display: flex;
+      flex-wrap: wrap;
+      gap: 4px;
+    }
+    .day[data-why='exception'] {
+      background: var(--mat-sys-surface-container-highest);
+      text-decoration: line-through;
+    }
+    .day[data-why='blackout'] {
+      background: var(--mat-sys-error-container);
+      color: var(--mat-sys-on-error-container);
     }
     .error {
       color: var(--mat-sys-error);
@@ -201,7 +291,7 @@ export class ProctorAvailability {
   protected readonly why = whyWords;
   protected readonly rules = signal<string[]>([]);
   protected readonly blackouts = signal<{ from: string; to: string }[]>([]);
-  private exceptions: AvailabilitySettings['exceptions'] = [];
+  protected readonly exceptions = signal<AvailabilitySettings['exceptions']>([]);
   protected readonly preview = signal<PreviewDay[]>([]);
   protected readonly zone = signal('');
   protected readonly busy = signal(false);
@@ -226,7 +316,7 @@ export class ProctorAvailability {
         this.zone.set(p.homeTimeZone);
         this.rules.set(p.availability.rules);
         this.blackouts.set(p.availability.blackouts);
-        this.exceptions = p.availability.exceptions;
+        this.exceptions.set(p.availability.exceptions);
       });
     this.loadPreview();
   }
@@ -257,18 +347,55 @@ export class ProctorAvailability {
   protected addBlackout(): void {
     this.blackouts.update((b) => [...b, { from: '', to: '' }]);
   }
+  /** The server's (or the form's) message for exception `i`, if any. */
+  protected exceptionError(i: number): string | null {
+    const errors: Readonly<Record<string, string | undefined>> = this.fieldErrors();
+    return errors[`exceptions.${i}.date`] ?? errors[`exceptions.${i}.rule`] ?? null;
+  }
+  protected setException(i: number, value: string): void {
+    this.exceptions.update((list) =>
+      list.map((e, j) =>
+        j !== i ? e : e.kind === 'rule' ? { ...e, rule: value } : { ...e, date: value },
+      ),
+    );
+  }
+  protected addException(kind: 'date' | 'extra' | 'rule'): void {
+    const zone = this.zone() || 'UTC';
+    this.exceptions.update((list) => [
+      ...list,
+      kind === 'rule'
+        ? { kind, rule: `DTSTART;TZID=${zone}:20270108T000000\nRRULE:FREQ=WEEKLY;INTERVAL=2` }
+        : { kind, date: '' },
+    ]);
+  }
+  protected removeException(i: number): void {
+    this.exceptions.update((list) => list.filter((_, j) => j !== i));
+  }
   protected removeBlackout(i: number): void {
     this.blackouts.update((b) => b.filter((_, j) => j !== i));
   }
 
   protected save(): void {
+    // Half-filled rows are named here rather than dropped: the person meant something by them.
+    const missing: Record<string, string> = {};
+    this.exceptions().forEach((e, i) => {
+      if (e.kind !== 'rule' && !e.date) missing[`exceptions.${i}.date`] = 'Choose the day.';
+    });
+    this.blackouts().forEach((b, i) => {
+      if (!b.from || !b.to) missing[`blackouts.${i}.to`] = 'Choose the first and the last day.';
+    });
+    if (Object.keys(missing).length) {
+      this.fieldErrors.set(missing);
+      this.status.set('Some days are missing; nothing was saved.');
+      return;
+    }
     this.busy.set(true);
     this.fieldErrors.set({});
     this.api
       .saveAvailability({
         rules: this.rules(),
-        exceptions: this.exceptions,
-        blackouts: this.blackouts().filter((b) => b.from && b.to),
+        exceptions: this.exceptions(),
+        blackouts: this.blackouts(),
       })
       .pipe(takeUntilDestroyed(this.destroyRef))
       .subscribe({

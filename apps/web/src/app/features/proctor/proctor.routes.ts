@@ -1,5 +1,6 @@
 import { Routes } from '@angular/router';
 import { ProctorAvailability } from './proctor-availability';
+import { ProctorCalendar } from './proctor-calendar';
 import { ProctorCredentials } from './proctor-credentials';
 import { ProctorHome } from './proctor-home';
 import { ProctorProfileEditor } from './proctor-profile';
@@ -10,4 +11,5 @@ export const proctorRoutes: Routes = [
   { path: 'profile', component: ProctorProfileEditor, title: 'Proctor profile' },
   { path: 'credentials', component: ProctorCredentials, title: 'Credentials' },
   { path: 'availability', component: ProctorAvailability, title: 'Availability' },
+  { path: 'calendar', component: ProctorCalendar, title: 'Calendar' },
 ];

@@ -70,6 +70,10 @@ export class VisitApi {
   cancel(id: number, reason: string): Observable<VisitDetail> {
     return this.act(id, 'cancel', { reason });
   }
+  /** The accepted proctor steps back before the first visit day; the next candidate is asked. */
+  withdraw(id: number, reason: string): Observable<VisitDetail> {
+    return this.act(id, 'withdraw', { reason });
+  }
   widen(id: number, proctorIds?: number[]): Observable<VisitDetail> {
     return this.act(id, 'offers', proctorIds?.length ? { proctorIds } : {});
   }

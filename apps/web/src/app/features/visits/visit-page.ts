@@ -11,6 +11,7 @@ import { takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
+import { MatDialog } from '@angular/material/dialog';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -21,6 +22,7 @@ import {
   competencies,
   competencyLabels,
   traineeRoles,
+  withdrawReasonMinLength,
   type CaseRecordInput,
   type VisitDetail,
 } from '@evalon/contracts';
@@ -28,10 +30,11 @@ import { interval } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
+import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { moneyText } from '../../shared/formats';
 import { applyServerErrors } from '../../shared/forms';
-import { formatInstant, formatWindow } from '../../shared/iso-date';
+import { formatInstant, formatWindow, todayIn } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import {
   timeLeft,
@@ -72,6 +75,7 @@ export class VisitPage {
   private readonly route = inject(ActivatedRoute);
   private readonly locale = inject(LOCALE_ID);
   private readonly destroyRef = inject(DestroyRef);
+  private readonly dialog = inject(MatDialog);
 
   protected readonly visit = signal<VisitDetail | null>(null);
   protected readonly loadError = signal<string | null>(null);
@@ -103,6 +107,21 @@ export class VisitPage {
       this.isVisitProctor() &&
       ['accepted', 'completed', 'signed_off'].includes(this.visit()?.state ?? ''),
   );
+  /** Whether the visit's proctor may still withdraw: accepted and before the first day there. */
+  protected readonly canWithdraw = computed(() => {
+    const v = this.visit();
+    return (
+      !!v &&
+      this.isVisitProctor() &&
+      v.state === 'accepted' &&
+      todayIn(v.siteTimeZone, new Date(this.now())) < v.from
+    );
+  });
+  /** Whether cases can be recorded today: from the visit's first day on (campus calendar). */
+  protected readonly casesOpen = computed(() => {
+    const v = this.visit();
+    return !!v && todayIn(v.siteTimeZone, new Date(this.now())) >= v.from;
+  });
   protected readonly canCancel = computed(
     () =>
       this.isHospital() &&
@@ -161,6 +180,11 @@ export class VisitPage {
   protected readonly cancelReason = new FormControl('', {
     nonNullable: true,
     validators: [Validators.required, Validators.minLength(3)],
+  });
+  protected readonly withdrawMin = withdrawReasonMinLength;
+  protected readonly withdrawReason = new FormControl('', {
+    nonNullable: true,
+    validators: [Validators.required, Validators.minLength(withdrawReasonMinLength)],
   });
   protected readonly caseForm = new FormGroup({
     caseNumber: new FormControl(1, { nonNullable: true, validators: Validators.required }),
@@ -232,6 +256,25 @@ export class VisitPage {
     this.cancelReason.markAsTouched();
     if (this.cancelReason.invalid) return;
     this.run(this.api.cancel(this.visit()!.id, this.cancelReason.value.trim()));
+  }
+
+  /** Asks first: withdrawing hands the visit to the next proctor and cannot be undone. */
+  protected withdraw(): void {
+    this.withdrawReason.markAsTouched();
+    if (this.withdrawReason.invalid) return;
+    const v = this.visit()!;
+    confirmAction(this.dialog, {
+      title: `Withdraw from visit ${v.reference}?`,
+      message:
+        'You will no longer be the proctor of this visit. The hospital is told with your reason, a calendar cancellation is sent to you, and the next proctor on the hospital’s list is asked. This cannot be undone.',
+      confirmLabel: 'Withdraw',
+      cancelLabel: 'Keep the visit',
+      destructive: true,
+    })
+      .pipe(takeUntilDestroyed(this.destroyRef))
+      .subscribe((yes) => {
+        if (yes) this.run(this.api.withdraw(v.id, this.withdrawReason.value.trim()));
+      });
   }
 
   protected widen(): void {
