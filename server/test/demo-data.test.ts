@@ -240,6 +240,17 @@ describe('demo data', () => {
     expect(open.filter((l) => Number(l.at_risk) === 1 && Number(l.overdue) === 0)).toHaveLength(1);
     expect(open.filter((l) => Number(l.overdue) === 1)).toHaveLength(1);
     expect(legs.filter((l) => l.direction === 'return' && l.state === 'received')).toHaveLength(1);
+    // The return on its way back is due at the depot by the loan's back-at-depot day, with an
+    // expected arrival from its hand-over.
+    const back: { due: string; back: string; eta: string | null }[] = await dataSource.query(
+      `SELECT CAST(s.due_by AS CHAR) AS due, CAST(l.back_at_depot AS CHAR) AS back,
+              CAST(s.eta AS CHAR) AS eta
+         FROM shipments s JOIN loans l ON l.id = s.loan_id
+        WHERE s.direction = 'return' AND s.state = 'in_transit'`,
+    );
+    expect(back).toHaveLength(1);
+    expect(back[0]!.due).toBe(back[0]!.back);
+    expect(back[0]!.eta).toMatch(/^\d{4}-\d{2}-\d{2}$/);
   });
 
   it('has loans of both hospitals in each early state, and holds in the coming months', async () => {

@@ -2,11 +2,13 @@
 // Outside references (/work/shared/reference-values.md, "GS1 barcodes and UDI"): the barcode
 // writer's wiki example element string and its fields; the GS1 mod-10 check digit; the SSCC
 // structure (GS1 General Specifications, AI 00) with the derived example 106141411234567897.
-import { buildElementString } from '@evalon/gs1';
+import { buildElementString, parseElementString } from '@evalon/gs1';
+import { BarcodeFormat } from '@zxing/library';
 import { addCalendarDays } from '@evalon/scheduling';
 import { startTestApp, type TestApp } from './helpers/app';
 import { countRows, makeUnit } from './helpers/catalog';
 import { listen, registerWebhook, startPaymentsFake, type RunningFake } from './helpers/payments';
+import { pdfImages, readBarcode } from './helpers/pdf-images';
 import { shipmentKit } from './helpers/shipments';
 
 jest.setTimeout(90_000);
@@ -180,6 +182,75 @@ describe('packing by scans', () => {
     const pdf = Buffer.isBuffer(slip.body) ? slip.body : Buffer.from(slip.text ?? '', 'binary');
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
     expect(pdf.length).toBeGreaterThan(2_000);
+
+    // The barcodes as the slip carries them: cut out of the PDF and read by ZXing. GS1 General
+    // Specifications: AI 00 is the SSCC, 18 digits, first in a GS1-128 behind FNC1 (which a
+    // reader reports as the symbology identifier ]C1, ISO/IEC 15424, from memory); GS1
+    // DataMatrix starts with FNC1 too, which ZXing writes as GS.
+    const images = pdfImages(pdf);
+    expect(images).toHaveLength(2);
+    const linear = images.map((i) => readBarcode(i, BarcodeFormat.CODE_128)).filter(Boolean);
+    const matrix = images.map((i) => readBarcode(i, BarcodeFormat.DATA_MATRIX)).filter(Boolean);
+    expect(linear).toEqual([`]C1${buildElementString({ sscc: '106141411234567897' })}`]);
+    expect(matrix).toEqual([`\u001d00106141411234567897`]);
+    for (const read of [...linear, ...matrix]) {
+      expect(parseElementString(read!).sscc).toBe(packed.body.shipment.sscc);
+    }
     expect(await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [leg.id])).toBe(11);
+  });
+});
+
+describe('who works the lender side', () => {
+  it('the fleet manager reads the board and the shipment; only the coordinator packs', async () => {
+    const w = await kit.world();
+    const { modelId, fibre } = await kit.modelWithPackingList(w.lender.id);
+    const unit = await makeUnit(t.dataSource, modelId, w.lender.depotId);
+    const loan = await kit.confirmedLoan(w, [unit]);
+    const [leg] = await kit.legsOf(loan.id);
+    // A year on: the GS1 two-digit year (AI 17 YYMMDD) is read within ±50 years of today.
+    const [{ use_to: lastCaseDay }] = await t.dataSource.query(
+      'SELECT CAST(use_to AS CHAR) AS use_to FROM loans WHERE id = ?',
+      [loan.id],
+    );
+    const laterThanUse = addCalendarDays(lastCaseDay, 400);
+
+    // Read: both lender roles see the leg on the board and open it.
+    for (const person of [w.fleet, w.coordinator]) {
+      const list = await person.agent.get(`/api/shipments?loanId=${loan.id}`).expect(200);
+      expect(list.body.shipments.map((s: { id: number }) => s.id)).toEqual([leg.id]);
+    }
+    const asFleet = (await w.fleet.agent.get(`/api/shipments/${leg.id}`).expect(200)).body;
+    const asCoordinator = (await w.coordinator.agent.get(`/api/shipments/${leg.id}`).expect(200))
+      .body;
+    // Work: the page offers the steps to the coordinator only.
+    expect(asFleet.shipment.actions).toEqual([]);
+    expect(asCoordinator.shipment.actions).toEqual(expect.arrayContaining(['scan', 'pack']));
+
+    const scansBefore = await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [
+      leg.id,
+    ]);
+    const refused = await kit
+      .post(w.fleet, `/api/shipments/${leg.id}/scans`, {
+        raw: buildElementString({ gtin: fibre, lot: 'L1', expiry: laterThanUse }),
+      })
+      .expect(403);
+    expect(refused.body.error.message).toMatch(/coordinators/);
+    await kit
+      .post(w.fleet, `/api/shipments/${leg.id}/manual-ticks`, {
+        itemId: asFleet.shipment.checklist[0].id,
+        reason: 'Label torn',
+      })
+      .expect(403);
+    await kit.post(w.fleet, `/api/shipments/${leg.id}/pack`).expect(403);
+    // Nothing was written by the refused steps.
+    expect(await countRows(t.dataSource, 'shipment_scans', 'shipment_id = ?', [leg.id])).toBe(
+      scansBefore,
+    );
+    // The same scan from the coordinator ticks the line.
+    await kit
+      .post(w.coordinator, `/api/shipments/${leg.id}/scans`, {
+        raw: buildElementString({ gtin: fibre, lot: 'L1', expiry: laterThanUse }),
+      })
+      .expect(201);
   });
 });

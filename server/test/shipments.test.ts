@@ -2,6 +2,8 @@
 // stand-in (both child processes on free ports). The app listens on a loopback port so that
 // both stand-ins' signed webhooks reach it.
 import crypto from 'node:crypto';
+import { shipmentEta, toSiteDate } from '@evalon/scheduling';
+import { DateTime } from 'luxon';
 import { startTestApp, type TestApp } from './helpers/app';
 import { startCarrier, carrierWebhookSecret, type RunningCarrier } from './helpers/carrier';
 import { countRows, makePlace, makeUnit, places } from './helpers/catalog';
@@ -283,5 +285,176 @@ describe('alerts job', () => {
       [w.hospital.buyer.userId],
     );
     expect(notes).toBe(1);
+  });
+});
+
+describe('return legs on their way back', () => {
+  it('expect the depot arrival by the transit rule, turn at risk and overdue by the back-at-depot day, alert once each', async () => {
+    const w = await world();
+    const a = await modelWithPackingList(w.lender.id);
+    const unit = await makeUnit(t.dataSource, a.modelId, w.lender.depotId);
+    const loan = await confirmedLoan(w, [unit]);
+    const [out] = await legsOf(loan.id);
+    await packed(out.id);
+    const handed = await post(w.coordinator, `/api/shipments/${out.id}/hand-over`, {}).expect(200);
+    await carrier.control('POST', `/shipments/${handed.body.shipment.trackingNumber}/advance`, {
+      to: 'delivered',
+    });
+    await carrier.control('POST', '/webhooks/flush', {});
+    const ret = (await legsOf(loan.id))[1];
+    await post(w.buyer, `/api/shipments/${out.id}/receipt`, {}).expect(200);
+    await post(w.buyer, `/api/shipments/${ret.id}/decontamination`, {
+      method: 'Manual clean and low-temperature sterilisation per the IFU',
+      by: 'Sterile processing',
+      at: new Date(Date.now() - 3_600_000).toISOString(),
+    }).expect(200);
+    const waiting = (await w.coordinator.agent.get(`/api/shipments/${ret.id}`).expect(200)).body
+      .shipment;
+    const [dates] = await t.dataSource.query(
+      `SELECT CAST(l.return_ship_by AS CHAR) AS ship_back, CAST(l.back_at_depot AS CHAR) AS back,
+              c.time_zone AS campus_zone, d.time_zone AS depot_zone
+         FROM loans l JOIN sites c ON c.id = l.site_id JOIN shipments s ON s.loan_id = l.id
+         JOIN sites d ON d.id = s.depot_id WHERE s.id = ?`,
+      [ret.id],
+    );
+    // Waiting at the campus: the hospital's deadline, ship back by.
+    expect(waiting).toMatchObject({ dueBy: dates.ship_back, eta: null, risk: 'on_time' });
+
+    const back = await post(w.buyer, `/api/shipments/${ret.id}/hand-over`, {}).expect(200);
+    const [leg] = await t.dataSource.query(
+      `SELECT transit_days, origin_country, destination_country, due_zone, overdue_at
+         FROM shipments WHERE id = ?`,
+      [ret.id],
+    );
+    // On its way: expected at the depot by the scheduling package's transit rule from the
+    // hand-over day (campus calendar); the deadline is now the depot's back-at-depot day.
+    const expectedEta = shipmentEta(
+      toSiteDate(new Date(), dates.campus_zone),
+      Number(leg.transit_days),
+      leg.origin_country,
+      leg.destination_country,
+    );
+    expect(back.body.shipment).toMatchObject({
+      state: 'handed_over',
+      eta: expectedEta,
+      dueBy: dates.back,
+      shipBy: dates.ship_back,
+      risk: 'on_time',
+    });
+    expect(leg.due_zone).toBe(dates.depot_zone);
+    // Overdue from the first instant after the back-at-depot day ends at the depot.
+    expect(new Date(leg.overdue_at).toISOString()).toBe(
+      DateTime.fromISO(dates.back, { zone: dates.depot_zone })
+        .plus({ days: 1 })
+        .startOf('day')
+        .toUTC()
+        .toISO(),
+    );
+
+    // The carrier reports a delay past the back-at-depot day: at risk, on the board too.
+    const tn = back.body.shipment.trackingNumber as string;
+    await carrier.control('POST', `/shipments/${tn}/delay`, { days: 59 });
+    await carrier.control('POST', `/shipments/${tn}/delay`, { days: 59 });
+    await carrier.control('POST', '/webhooks/flush', {});
+    const delayed = (await w.coordinator.agent.get(`/api/shipments/${ret.id}`).expect(200)).body
+      .shipment;
+    expect(delayed.eta > dates.back).toBe(true);
+    expect(delayed.risk).toBe('at_risk');
+    const risky = await w.coordinator.agent
+      .get(`/api/shipments?risk=at_risk&loanId=${loan.id}`)
+      .expect(200);
+    expect(risky.body.shipments.map((s: { id: number }) => s.id)).toEqual([ret.id]);
+
+    const deps = createShipmentsDeps({
+      config: t.config,
+      dataSource: t.dataSource,
+      logger: createLogger('silent'),
+      payments: createPaymentsDeps({
+        config: t.config,
+        dataSource: t.dataSource,
+        logger: createLogger('silent'),
+      }),
+    });
+    const alertsOf = async () =>
+      (
+        await t.dataSource.query(
+          'SELECT kind FROM shipment_alerts WHERE shipment_id = ? ORDER BY kind',
+          [ret.id],
+        )
+      ).map((r: { kind: string }) => r.kind);
+    await runShipmentAlerts(deps);
+    await runShipmentAlerts(deps);
+    expect(await alertsOf()).toEqual(['return_at_risk']);
+    expect(
+      await countRows(t.dataSource, 'outbox_messages', 'dedupe_key LIKE ?', [
+        `shipment:${ret.id}:return_at_risk:user:%`,
+      ]),
+    ).toBe(2); // the coordinator and the buyer
+
+    // Time passes beyond the back-at-depot day at the depot, still not received: overdue.
+    await t.dataSource.query(
+      'UPDATE shipments SET overdue_at = DATE_SUB(UTC_TIMESTAMP(3), INTERVAL 1 MINUTE) WHERE id = ?',
+      [ret.id],
+    );
+    const late = await w.coordinator.agent
+      .get(`/api/shipments?risk=overdue&loanId=${loan.id}`)
+      .expect(200);
+    expect(late.body.shipments.map((s: { id: number; risk: string }) => [s.id, s.risk])).toEqual([
+      [ret.id, 'overdue'],
+    ]);
+    await runShipmentAlerts(deps);
+    await runShipmentAlerts(deps);
+    expect(await alertsOf()).toEqual(['return_at_risk', 'return_overdue']);
+    const [overdueMail] = await t.dataSource.query(
+      'SELECT subject FROM outbox_messages WHERE dedupe_key LIKE ? LIMIT 1',
+      [`shipment:${ret.id}:return_overdue:user:%`],
+    );
+    expect(overdueMail.subject).toBe(
+      `Return overdue: ${back.body.shipment.reference} was not received by ${dates.back}`,
+    );
+
+    // Received at the depot: no longer at risk or late.
+    await carrier.control('POST', `/shipments/${tn}/advance`, { to: 'delivered' });
+    await carrier.control('POST', '/webhooks/flush', {});
+    const received = await post(w.coordinator, `/api/shipments/${ret.id}/receive`).expect(200);
+    expect(received.body.shipment.risk).toBe('on_time');
+    const still = await w.coordinator.agent
+      .get(`/api/shipments?risk=late&loanId=${loan.id}`)
+      .expect(200);
+    expect(still.body.shipments).toEqual([]);
+  });
+});
+
+describe('GET /api/shipments/in-transit', () => {
+  it('lists the lender’s legs with the carrier, depot to campus, for lender people only', async () => {
+    const w = await world();
+    const a = await modelWithPackingList(w.lender.id);
+    const unit = await makeUnit(t.dataSource, a.modelId, w.lender.depotId);
+    const loan = await confirmedLoan(w, [unit]);
+    const [out] = await legsOf(loan.id);
+    const mine = async (c: typeof w.coordinator) =>
+      (await c.agent.get('/api/shipments/in-transit').expect(200)).body.shipments.filter(
+        (s: { id: number }) => s.id === out.id,
+      );
+    // Waiting to be packed: not on the map.
+    expect(await mine(w.coordinator)).toEqual([]);
+    await packed(out.id);
+    await post(w.coordinator, `/api/shipments/${out.id}/hand-over`, {}).expect(200);
+
+    const [entry] = await mine(w.coordinator);
+    // The coordinates the test sites were made with (helpers/catalog places).
+    expect(entry).toMatchObject({
+      direction: 'outbound',
+      state: 'handed_over',
+      risk: 'on_time',
+      from: { lat: places.eastDepot.latitude, lng: places.eastDepot.longitude },
+      to: { lat: places.bostonCampus.latitude, lng: places.bostonCampus.longitude },
+    });
+    expect(await mine(w.fleet)).toHaveLength(1);
+    // Hospital people have their loan page; another lender sees nothing of it.
+    const refused = await w.buyer.agent.get('/api/shipments/in-transit').expect(403);
+    expect(refused.body.error.message).toMatch(/coordinators and fleet managers/);
+    const other = await world();
+    expect(await mine(other.coordinator)).toEqual([]);
   });
 });

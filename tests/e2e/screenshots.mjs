@@ -1,21 +1,22 @@
 // Screenshots for the user guide (docs/user-guide.md), taken from a running Evalon with fresh
 // demo data (`npm run demo:reset` first), at 1280×800:
 //
-//   node tests/e2e/screenshots.mjs [baseUrl] [--only=visits]   (default http://127.0.0.1:8080)
+//   node tests/e2e/screenshots.mjs [baseUrl] [--only=visits|shipments]  (default port 8080)
 //
-// Saves all 36 pictures in docs/screenshots/, in this order: sign-in, home-buyer, members,
+// Saves all 40 pictures in docs/screenshots/, in this order: sign-in, home-buyer, members,
 // loans-table, loan-page, home-fleet, approval-queue, catalog-models, model-editor,
 // depots-settings, units, unit-detail, maintenance-conflict, home-proctor, visits-list,
 // visit-candidates, visit-page, proctor-offers, proctor-credentials, proctor-availability,
 // proctor-calendar, training-record, visit-settings-hospital, visit-settings-lender, buyer-search,
 // unit-page, request-stepper-campus, request-stepper-units, request-stepper,
-// request-stepper-conflict, deposit-due, provider-page, loan-confirmed, notifications and
-// maps-standin.
+// request-stepper-conflict, deposit-due, provider-page, loan-confirmed, notifications,
+// shipments-board, shipments-today, shipments-map, shipment-photos and maps-standin.
 //
 // The run changes the demo data the way a person would: it books one unit for the other demo
 // hospital (the clash on request-stepper-conflict, cancelled straight after) and pays the
-// deposit of the buyer's approved demo loan on the payments stand-in. Reset the demo data before
-// running it again.
+// deposit of the buyer's approved demo loan on the payments stand-in, and records the return
+// inspection of the demo return awaiting it (two photos, one finding). Reset the demo data
+// before running it again.
 //
 // Every page is checked for what it must show before it is taken, and for names of the demo
 // scenario that were retired; the script says (and exits with 1) when the icon font is not
@@ -23,6 +24,7 @@
 /* global document, getComputedStyle, sessionStorage */
 import fs from 'node:fs';
 import path from 'node:path';
+import zlib from 'node:zlib';
 import { fileURLToPath } from 'node:url';
 import { chromium } from '@playwright/test';
 import retiredNames from '../guards/retired-names.cjs';
@@ -34,7 +36,10 @@ const baseUrl = (args.find((a) => !a.startsWith('--')) ?? 'http://127.0.0.1:8080
   /\/$/,
   '',
 );
-/** `--only=visits` takes the proctoring pictures alone (they need only fresh demo visits). */
+/**
+ * `--only=visits` takes the proctoring pictures alone (they need only fresh demo visits);
+ * `--only=shipments` the coordinator's shipment pictures alone (fresh demo shipments).
+ */
 const only = args.find((a) => a.startsWith('--only='))?.slice('--only='.length) ?? null;
 const viewport = { width: 1280, height: 800 };
 const demoPassword = 'evalon-demo';
@@ -664,6 +669,106 @@ async function coordinatorBell(page) {
   await page.keyboard.press('Escape');
 }
 
+// --- The coordinator's shipments --------------------------------------------------------------
+
+/**
+ * A made-up photo as PNG (ISO/IEC 15948: signature, IHDR, one zlib IDAT with filter byte 0 per
+ * row, IEND, CRC-32 per chunk): a shaded bench, a dark case and a lighter part on it, so the
+ * thumbnails look like photos of a device, not like flat swatches.
+ */
+function photoPng(width, height, accent) {
+  const chunk = (type, data) => {
+    const length = Buffer.alloc(4);
+    length.writeUInt32BE(data.length);
+    const body = Buffer.concat([Buffer.from(type, 'latin1'), data]);
+    const crc = Buffer.alloc(4);
+    crc.writeUInt32BE(zlib.crc32(body));
+    return Buffer.concat([length, body, crc]);
+  };
+  const header = Buffer.alloc(13);
+  header.writeUInt32BE(width, 0);
+  header.writeUInt32BE(height, 4);
+  header[8] = 8; // bit depth
+  header[9] = 2; // RGB
+  const rows = [];
+  for (let y = 0; y < height; y++) {
+    const row = [0];
+    for (let x = 0; x < width; x++) {
+      const shade = 150 + Math.round((60 * (x + y)) / (width + height));
+      let px = [shade, shade + 4, shade + 10];
+      const inCase = x > width * 0.18 && x < width * 0.82 && y > height * 0.3 && y < height * 0.85;
+      if (inCase) px = [58, 64, 72];
+      const onPart = inCase && Math.abs(y - height * 0.58 - (x - width / 2) * 0.35) < height * 0.05;
+      if (onPart) px = accent;
+      row.push(...px);
+    }
+    rows.push(Buffer.from(row));
+  }
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk('IHDR', header),
+    chunk('IDAT', zlib.deflateSync(Buffer.concat(rows))),
+    chunk('IEND', Buffer.alloc(0)),
+  ]);
+}
+
+/**
+ * The coordinator's board of the demo shipments, today's work (legs arriving back), the map of
+ * legs with the carrier, and a return inspection recorded with two photos.
+ */
+async function coordinatorShipments(page) {
+  await signIn(page, coordinator.email, coordinator.firstName);
+  await openFromNavigation(page, 'Shipments');
+  await expectVisible(page.getByRole('heading', { level: 1, name: 'Shipments' }), 'the board');
+  await expectVisible(page.getByRole('row').nth(1), 'shipment rows');
+  await expectVisible(page.getByText('Overdue', { exact: true }), 'the overdue demo leg');
+  await restPointer(page);
+  await shoot(page, 'shipments-board.png');
+
+  await page.getByRole('button', { name: /Arriving back/ }).click();
+  await expectVisible(page.getByText(/-R1/), 'the return on its way back');
+  await restPointer(page);
+  await shoot(page, 'shipments-today.png');
+
+  await page.getByRole('link', { name: 'Map of shipments in transit' }).click();
+  await expectVisible(page.getByRole('list', { name: 'Shipments in transit' }), 'the list');
+  // The route dots are small; they are there once the stand-in has put its marker elements in.
+  await page
+    .waitForFunction(() => document.querySelectorAll('evalon-offline-marker').length > 30, null, {
+      timeout: 20_000,
+    })
+    .catch(() => {
+      throw new Error('expected the page to show the routes on the map');
+    });
+  await restPointer(page);
+  await shoot(page, 'shipments-map.png');
+
+  // The demo return awaiting inspection: two photos for one finding, then the inspection.
+  await page.goto(`${baseUrl}/shipments`);
+  await page.getByRole('button', { name: /To inspect/ }).click();
+  await page.getByRole('link', { name: /-R1$/ }).first().click();
+  await expectVisible(page.getByText('Return inspection', { exact: true }), 'the inspection');
+  await page.getByRole('button', { name: 'Add finding' }).click();
+  await page.getByLabel('Finding').fill('Scratched housing beside the light-guide port');
+  await page.getByLabel('Inspection photo files, row 1').setInputFiles([
+    { name: 'housing.png', mimeType: 'image/png', buffer: photoPng(320, 240, [196, 120, 64]) },
+    { name: 'port.png', mimeType: 'image/png', buffer: photoPng(320, 240, [210, 210, 200]) },
+  ]);
+  await expectVisible(
+    page.getByRole('list', { name: 'Inspection photos, row 1' }).getByRole('img'),
+    'the finding’s photos',
+  );
+  await page.getByRole('button', { name: 'Record inspection' }).click();
+  await expectVisible(page.getByText('Inspection recorded.'), 'the inspection recorded');
+  await expectVisible(
+    page.getByRole('img', { name: /^Inspection photo: damage: Scratched housing/ }),
+    'the inspection photos',
+  );
+  await scrollToTop(page.locator('.photos'), 120);
+  await restPointer(page);
+  await shoot(page, 'shipment-photos.png');
+}
+
 // --- The offline maps stand-in with the demo's sites ---------------------------------------
 
 /**
@@ -920,6 +1025,8 @@ async function main() {
   try {
     if (only === 'visits') {
       await visitPictures();
+    } else if (only === 'shipments') {
+      await withPerson(browser, coordinatorShipments);
     } else {
       await withPerson(browser, buyerBasics);
       await withPerson(browser, fleetPages);
@@ -931,6 +1038,7 @@ async function main() {
       await withPerson(browser, (page) => buyerRequest(browser, page));
       await withPerson(browser, buyerDeposit);
       await withPerson(browser, coordinatorBell);
+      await withPerson(browser, coordinatorShipments);
       await withPerson(browser, mapsStandin);
     }
   } finally {

@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect, test, type Browser, type Page } from '@playwright/test';
+import { tinyPng } from '../../server/test/helpers/images';
 import { escapeRegExp, paymentsFakeUrl, signIn, waitForMessages } from './helpers';
 
 /*
@@ -183,6 +184,22 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
     /WP\d{10}/,
   )![0];
 
+  // With the carrier: on the coordinator's map, a great-circle route and a line in the list.
+  await c.goto('/shipments');
+  await c.getByRole('link', { name: 'Map of shipments in transit' }).click();
+  const listed = c
+    .getByRole('list', { name: 'Shipments in transit' })
+    .getByRole('listitem')
+    .filter({ hasText: `${loan.reference}-O1` });
+  await expect(listed).toContainText('Outbound:');
+  await listed.getByRole('button', { name: `Show ${loan.reference}-O1 on the map` }).click();
+  await expect(listed.getByRole('button')).toHaveAttribute('aria-pressed', 'true');
+  // 31 dots between the two ends, plus the ends (the stand-in's advanced-marker elements).
+  await expect
+    .poll(() => c.locator(`[title^="${loan.reference}-O1:"]`).count(), { timeout: 15_000 })
+    .toBe(31);
+  await c.goBack();
+
   // The stand-in delivers.
   await carrier(`/shipments/${tracking}/advance`, { to: 'delivered' });
   await carrier('/webhooks/flush', {});
@@ -193,6 +210,13 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   await b.locator('ev-loan-shipments').scrollIntoViewIfNeeded();
   await shoot(b, 'loan-shipments.png');
   await b.locator('ev-loan-shipments').getByRole('link', { name: 'Open' }).first().click();
+  // A receipt photo: chosen in the file picker, uploaded, shown as a thumbnail.
+  await b.locator('#receipt-photo-file').setInputFiles({
+    name: 'case-on-arrival.png',
+    mimeType: 'image/png',
+    buffer: tinyPng(160, 120, [120, 132, 140]),
+  });
+  await expect(b.getByRole('img', { name: /^Receipt photo \d+ by Dana Whitcombe$/ })).toBeVisible();
   await b.getByRole('button', { name: 'Confirm receipt' }).click();
   await expect(b.getByText('Receipt confirmed by the hospital: everything present.')).toBeVisible();
   await b.goto(`/loans/${loan.id}`);
@@ -225,10 +249,21 @@ test('pack by scans, ship, deliver, receive, return, inspect with a charge and s
   await c.getByRole('button', { name: 'Add finding' }).click();
   await c.getByLabel('Finding').fill('Bent deflection lever');
   await c.getByLabel('Charge').fill('120');
+  await c.getByLabel('Inspection photo files, row 1').setInputFiles({
+    name: 'lever.png',
+    mimeType: 'image/png',
+    buffer: tinyPng(160, 120, [176, 92, 60]),
+  });
+  await expect(
+    c.getByRole('list', { name: 'Inspection photos, row 1' }).getByRole('img'),
+  ).toBeVisible();
   await c.getByRole('button', { name: 'Record inspection' }).scrollIntoViewIfNeeded();
   await shoot(c, 'shipment-inspection.png');
   await c.getByRole('button', { name: 'Record inspection' }).click();
   await expect(c.getByText('Inspection recorded.')).toBeVisible();
+  await expect(
+    c.getByRole('img', { name: 'Inspection photo: damage: Bent deflection lever' }),
+  ).toBeVisible();
   await c.getByRole('button', { name: 'Settle deposit and close' }).click();
   await expect(c.getByText(/Deposit settled: 120\.00 kept/)).toBeVisible();
 

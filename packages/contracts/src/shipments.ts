@@ -128,7 +128,10 @@ export const shipmentSummary = z
     carrier: z.string().nullable(),
     trackingNumber: z.string().nullable(),
     carrierStatus: z.string().nullable(),
-    /** The loan's deadline for this leg (outbound `deliverBy`, return `returnShipBy`). */
+    /**
+     * The loan's deadline for this leg: outbound `deliverBy` (campus calendar); a return waiting
+     * at the campus `returnShipBy` (campus); a return on its way `backAtDepot` (depot calendar).
+     */
     dueBy: isoDate,
     shipBy: isoDate,
     eta: isoDate.nullable(),
@@ -140,8 +143,48 @@ export const shipmentSummary = z
   .meta({ id: 'ShipmentSummary' });
 export type ShipmentSummary = z.infer<typeof shipmentSummary>;
 
+/** Limits of shipment photos: size per file, files per receipt and per inspection finding. */
+export const shipmentPhotoLimits = {
+  /** Largest photo, in bytes (5 MB, as for model photos). */
+  maxBytes: 5 * 1024 * 1024,
+  /** Photos one receipt may carry. */
+  perReceipt: 8,
+  /** Photos one inspection finding may carry. */
+  perFinding: 4,
+  /** Photos waiting on a return leg for the inspection to claim them. */
+  pendingPerReturn: 24,
+} as const;
+
+/**
+ * A photo on a shipment: taken by the hospital on receipt (outbound leg) or by the depot for an
+ * inspection finding (return leg; `findingId` once the inspection is recorded).
+ */
+export const shipmentPhoto = z
+  .object({
+    id: z.number(),
+    kind: z.enum(['receipt', 'finding']),
+    findingId: z.number().nullable(),
+    /** The finding's category and note, for the caption. */
+    caption: z.string().nullable(),
+    contentType: z.enum(['image/jpeg', 'image/png', 'image/webp']),
+    sizeBytes: z.number(),
+    createdAt: z.string(),
+    by: z.string().nullable(),
+  })
+  .meta({ id: 'ShipmentPhoto' });
+export type ShipmentPhoto = z.infer<typeof shipmentPhoto>;
+
+export const shipmentPhotoResponse = z
+  .object({ photo: shipmentPhoto })
+  .meta({ id: 'ShipmentPhotoResponse' });
+
+export const shipmentPhotoParams = z
+  .object({ id, photoId: id })
+  .meta({ id: 'ShipmentPhotoParams' });
+
 export const shipmentDetail = shipmentSummary
   .extend({
+    photos: z.array(shipmentPhoto),
     sscc: z.string().nullable(),
     service: z.string().nullable(),
     outboundId: z.number().nullable(),
@@ -163,6 +206,37 @@ export const shipmentDetail = shipmentSummary
   })
   .meta({ id: 'ShipmentDetail' });
 export type ShipmentDetail = z.infer<typeof shipmentDetail>;
+
+/** A place on the map of shipments in transit. */
+const mapPlace = z.object({ name: z.string(), lat: z.number(), lng: z.number() });
+
+/** One leg with the carrier, from where to where, for the map of shipments in transit. */
+export const shipmentMapEntry = z
+  .object({
+    id: z.number(),
+    reference: z.string(),
+    loanReference: z.string(),
+    hospitalName: z.string(),
+    direction: shipmentDirection,
+    state: shipmentState,
+    trackingNumber: z.string().nullable(),
+    dueBy: isoDate,
+    eta: isoDate.nullable(),
+    risk: shipmentRisk,
+    from: mapPlace,
+    to: mapPlace,
+  })
+  .meta({ id: 'ShipmentMapEntry' });
+export type ShipmentMapEntry = z.infer<typeof shipmentMapEntry>;
+
+export const shipmentMapResponse = z
+  .object({
+    shipments: z.array(shipmentMapEntry),
+    /** Legs in transit in all; the map draws at most the first 300. */
+    total: z.number(),
+  })
+  .meta({ id: 'ShipmentMapResponse' });
+export type ShipmentMapResponse = z.infer<typeof shipmentMapResponse>;
 
 export const shipmentParams = z.object({ id }).meta({ id: 'ShipmentParams' });
 
@@ -253,6 +327,8 @@ export const inspectionRequest = z
           charge: z.number().int().min(0).max(100_000_000).default(0),
           /** Whether the unit goes to maintenance before its next loan. */
           needsRepair: z.boolean().default(false),
+          /** Photos uploaded to the return leg for this finding (each used once). */
+          photoIds: z.array(id).max(shipmentPhotoLimits.perFinding).default([]),
         }),
       )
       .max(100),

@@ -72,4 +72,33 @@ describe('shipment alerts', () => {
     expect(overdue.subject).toMatch(/^Overdue: EV-2027-000001-O1/);
     expect(overdue.text).not.toContain('decontaminated before return');
   });
+
+  it('words a return on its way by the depot’s back-at-depot day', () => {
+    const data = {
+      shipmentReference: 'EV-2027-000001-R1',
+      loanReference: 'EV-2027-000001',
+      depotName: 'East Depot',
+      siteName: 'North Campus',
+      hospitalName: 'A Hospital',
+      direction: 'return' as const,
+      dueBy: '2027-03-10',
+      eta: '2027-03-12',
+      trackingNumber: 'WP0000000001',
+      url: 'https://evalon.example/shipments/1',
+    };
+    const risk = shipmentAlert({ ...data, kind: 'return_at_risk' }, to);
+    expect(risk.subject).toBe(
+      'Return at risk: EV-2027-000001-R1 may reach the depot after 2027-03-10',
+    );
+    expect(risk.text).toMatch(/Back at depot by: Wednesday, March 10, 2027/);
+    expect(risk.text).toMatch(/Expected at the depot: Friday, March 12, 2027/);
+    expect(risk.text).toContain('depot’s calendar days');
+    const overdue = shipmentAlert({ ...data, kind: 'return_overdue', eta: null }, to);
+    expect(overdue.subject).toBe(
+      'Return overdue: EV-2027-000001-R1 was not received by 2027-03-10',
+    );
+    expect(overdue.text).toContain('end of its back-at-depot day (depot time)');
+    // Both still carry the decontamination caution of every return.
+    expect(overdue.text).toContain('decontaminated before return');
+  });
 });

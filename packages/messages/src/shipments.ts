@@ -4,7 +4,11 @@ import { DEFAULT_LOCALE, formatCalendarDate, type Recipient } from './format';
 import { render, type Block, type RenderedMessage } from './layout';
 
 /** The shipment conditions that send an alert, each once per shipment. */
-export type ShipmentAlertKind = 'at_risk' | 'overdue' | 'return_reminder' | 'return_late';
+export type ShipmentAlertKind =
+  'at_risk' | 'overdue' | 'return_reminder' | 'return_late' | 'return_at_risk' | 'return_overdue';
+
+/** Alerts about a return on its way back, whose deadline is the depot's back-at-depot day. */
+const depotDeadline: readonly ShipmentAlertKind[] = ['return_at_risk', 'return_overdue'];
 
 /** What an alert e-mail says about one shipment. */
 export interface ShipmentAlertData {
@@ -15,7 +19,10 @@ export interface ShipmentAlertData {
   depotName: string;
   siteName: string;
   hospitalName: string;
-  /** The leg's deadline (outbound: deliver by; return: return ship by), a site calendar day. */
+  /**
+   * The leg's deadline, a site calendar day: outbound, deliver by (campus); return waiting at the
+   * campus, ship back by (campus); return on its way, back at the depot by (depot).
+   */
   dueBy: string;
   /** Expected delivery (site calendar day), when known. */
   eta: string | null;
@@ -50,6 +57,18 @@ const alertWords: Record<
     lead: (d) =>
       `Loan ${d.loanReference} is due to ship back to ${d.depotName} by ${d.dueBy}. Before the return ships, record the decontamination (method, by whom, when) on the loan page; then book the return.`,
   },
+  return_at_risk: {
+    subject: (d) => `Return at risk: ${d.shipmentReference} may reach the depot after ${d.dueBy}`,
+    heading: 'A return may reach the depot late',
+    lead: (d) =>
+      `The expected arrival of ${d.shipmentReference} at ${d.depotName} is after the loan's back-at-depot day. Check with the carrier; the unit's next loan may depend on it.`,
+  },
+  return_overdue: {
+    subject: (d) => `Return overdue: ${d.shipmentReference} was not received by ${d.dueBy}`,
+    heading: 'A return is overdue at the depot',
+    lead: (d) =>
+      `${d.shipmentReference} from ${d.siteName} was not received at ${d.depotName} by the end of its back-at-depot day (depot time).`,
+  },
   return_late: {
     subject: (d) => `Return late: ${d.loanReference} was due to ship by ${d.dueBy}`,
     heading: 'A return is late',
@@ -76,16 +95,32 @@ export function shipmentAlert(data: ShipmentAlertData, to: Recipient): RenderedM
     { label: 'From', value: data.direction === 'outbound' ? data.depotName : data.siteName },
     { label: 'To', value: data.direction === 'outbound' ? data.siteName : data.depotName },
     {
-      label: data.direction === 'outbound' ? 'Deliver by' : 'Ship back by',
+      label:
+        data.direction === 'outbound'
+          ? 'Deliver by'
+          : depotDeadline.includes(data.kind)
+            ? 'Back at depot by'
+            : 'Ship back by',
       value: formatCalendarDate(data.dueBy, locale),
     },
   ];
-  if (data.eta)
-    rows.push({ label: 'Expected delivery', value: formatCalendarDate(data.eta, locale) });
+  if (data.eta) {
+    rows.push({
+      label: data.direction === 'outbound' ? 'Expected delivery' : 'Expected at the depot',
+      value: formatCalendarDate(data.eta, locale),
+    });
+  }
   if (data.trackingNumber) rows.push({ label: 'Tracking number', value: data.trackingNumber });
   const blocks: Block[] = [
     { kind: 'paragraph', text: words.lead(data) },
-    { kind: 'facts', title: 'The shipment', note: 'Dates are the campus’s calendar days.', rows },
+    {
+      kind: 'facts',
+      title: 'The shipment',
+      note: depotDeadline.includes(data.kind)
+        ? 'Dates are the depot’s calendar days.'
+        : 'Dates are the campus’s calendar days.',
+      rows,
+    },
   ];
   if (data.kind.startsWith('return')) {
     blocks.push({ kind: 'paragraph', text: DECONTAMINATION_CAUTION });

@@ -33,6 +33,7 @@ export const appTables = [
   'evaluation_feedback',
   'evaluation_cases',
   'loan_settlements',
+  'shipment_photos',
   'inspection_findings',
   'shipment_alerts',
   'shipment_events',

@@ -16,12 +16,15 @@ import {
 import { shipmentEntities } from './data-access/entities';
 import { Shipments1765152000000 } from './data-access/migrations/1765152000000-shipments';
 import { ShipmentsBoardIndex1765300060000 } from './data-access/migrations/1765300060000-shipments-board-index';
+import { ShipmentPhotos1765330000000 } from './data-access/migrations/1765330000000-shipment-photos';
 import { startShipmentAlertsJob, type ShipmentAlertsJob } from './domain/alerts';
 import type { Config } from '../config';
 import type { Logger } from '../logger';
 import { shipmentNotifierFromConfig, type NotifyShipmentEvent } from '../notifications';
 import type { NotifyLoanEvent } from '../loans';
 import type { PaymentsDeps } from '../payments';
+import { LocalPhotoStore } from '../catalog';
+import type { FileStore } from '../storage/file-store';
 import {
   carrierOptionsFromConfig,
   createStandInCarrier,
@@ -39,6 +42,7 @@ export {
 } from './api/routes';
 export { shipmentEntities, shipmentTables } from './data-access/entities';
 export { Shipments1765152000000 } from './data-access/migrations/1765152000000-shipments';
+export { ShipmentPhotos1765330000000 } from './data-access/migrations/1765330000000-shipment-photos';
 export { runShipmentAlerts, startShipmentAlertsJob, type ShipmentAlertsJob } from './domain/alerts';
 export { ensureOutboundShipments } from './domain/creation';
 export { stageDemoShipments, type DemoShipmentStage } from './domain/demo';
@@ -49,13 +53,14 @@ export type { ShipmentsDeps } from './domain/deps';
 
 /** The component's dependencies for a server configuration. */
 export function createShipmentsDeps(input: {
-  config: Pick<Config, 'http' | 'shipments'>;
+  config: Pick<Config, 'http' | 'shipments' | 'storage'>;
   dataSource: DataSource;
   logger: Logger;
   payments: PaymentsDeps;
   now?: () => Date;
   carrier?: CarrierClient;
   notify?: NotifyShipmentEvent;
+  photoStore?: FileStore;
 }): ShipmentsDeps {
   const now = input.now ?? (() => new Date());
   return {
@@ -65,6 +70,7 @@ export function createShipmentsDeps(input: {
     carrier: input.carrier ?? defaultCarrier(input.config),
     notify: input.notify ?? shipmentNotifierFromConfig(input.config, { now }),
     payments: input.payments,
+    photoStore: input.photoStore ?? new LocalPhotoStore(input.config.storage.photoDir),
   };
 }
 
@@ -99,6 +105,7 @@ function depsOf(ctx: Parameters<NonNullable<AppComponent['routers']>>[0]): Shipm
       now: ctx.now,
       payments: paymentsDepsOf(ctx),
       carrier: ctx.services.carrier,
+      photoStore: ctx.services.photoStore,
     });
     depsOfApp.set(ctx.services, deps);
   }
@@ -112,7 +119,11 @@ function depsOf(ctx: Parameters<NonNullable<AppComponent['routers']>>[0]): Shipm
 export const shipmentsComponent: AppComponent = {
   name: 'shipments',
   entities: shipmentEntities,
-  migrations: [Shipments1765152000000, ShipmentsBoardIndex1765300060000],
+  migrations: [
+    Shipments1765152000000,
+    ShipmentsBoardIndex1765300060000,
+    ShipmentPhotos1765330000000,
+  ],
   // The carrier signs the exact bytes it sends, and sends no session or CSRF token.
   rawRouters: (ctx) => [carrierWebhookRoutes(depsOf(ctx), ctx.catalogue)],
   routers: (ctx) => [

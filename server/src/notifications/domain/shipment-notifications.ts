@@ -49,7 +49,17 @@ const alertTitles: Record<ShipmentAlertKind, string> = {
   overdue: 'Shipment overdue',
   return_reminder: 'Return due soon',
   return_late: 'Return late',
+  return_at_risk: 'Return at risk',
+  return_overdue: 'Return overdue at the depot',
 };
+
+/** What a leg's deadline is, for the in-app notice: whose calendar day and for what. */
+function deadlineWords(direction: string, kind: ShipmentAlertKind, day: string): string {
+  if (direction === 'outbound') return `deliver by ${day} (campus calendar)`;
+  return kind === 'return_at_risk' || kind === 'return_overdue'
+    ? `back at the depot by ${day} (depot calendar)`
+    : `ship back by ${day} (campus calendar)`;
+}
 
 /**
  * Builds the shipments notifier: alerts go to the lender's coordinators (link to the
@@ -125,7 +135,7 @@ export function createShipmentNotifier(options: {
           {
             kind: `shipment.${notice.kind}`,
             title: `${alertTitles[notice.kind]}: ${leg.reference}`,
-            body: `Loan ${leg.loan_reference}, ${leg.direction === 'outbound' ? 'deliver by' : 'ship back by'} ${leg.due_by} (campus calendar).`,
+            body: `Loan ${leg.loan_reference}, ${deadlineWords(leg.direction, notice.kind, leg.due_by)}.`,
             link: url.slice(base.length),
             dedupeKey: `shipment:${leg.shipment_id}:${notice.kind}:${url.slice(base.length)}`,
           },

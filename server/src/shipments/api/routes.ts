@@ -19,6 +19,9 @@ import {
   shipmentParams,
   shipmentQuery,
   shipmentResponse,
+  shipmentPhotoParams,
+  shipmentPhotoResponse,
+  shipmentMapResponse,
 } from '@evalon/contracts';
 import { currentAuth } from '../../http/access';
 import { AppError } from '../../errors';
@@ -29,6 +32,9 @@ import { recordInspection, settleLoan } from '../domain/inspection';
 import { getShipment, listShipments } from '../domain/queries';
 import { handleTrackingEvent } from '../domain/tracking';
 import { packingSlip } from '../domain/packing-slip';
+import { addShipmentPhoto, readShipmentPhoto } from '../domain/photos';
+import { shipmentsInTransit } from '../domain/transit-map';
+import { photoUpload } from './photo-upload';
 import {
   getShipmentSettings,
   pack,
@@ -69,6 +75,26 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
     },
     async ({ req, res, query }) => {
       res.json(await listShipments(deps.dataSource.manager, currentAuth(req), query, deps.now()));
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/in-transit',
+      summary: 'Legs with the carrier now, from where to where, for the map',
+      description:
+        'Handed over, in transit or with a carrier exception, both directions, with the depot’s ' +
+        'and the campus’s coordinates and the risk. Lender people (and the platform admin); ' +
+        'at most 300, by deadline, with `total` saying how many there are.',
+      access: { authenticated: true },
+      responses: {
+        200: { description: 'The legs.', schema: shipmentMapResponse },
+        403: error('Not a lender’s coordinator or fleet manager.'),
+      },
+    },
+    async ({ req, res }) => {
+      res.json(await shipmentsInTransit(deps.dataSource.manager, currentAuth(req), deps.now()));
     },
   );
 
@@ -246,6 +272,59 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
     async ({ req, res, params, body }) => {
       await attestDecontamination(deps, currentAuth(req), params.id, body);
       res.json({ shipment: await detail(req, params.id) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'post',
+      path: '/:id/photos',
+      summary: 'Add a receipt or inspection photo (multipart field `photo`)',
+      description:
+        'Outbound, delivered and not yet confirmed: the hospital’s buyer adds receipt photos ' +
+        '(at most 8). Return, received at the depot and not yet inspected: the coordinator adds ' +
+        'photos that findings then name in `photoIds` (at most 4 each). JPEG, PNG or WebP as ' +
+        'the bytes say, at most 5 MB; anything else (SVG, HTML, PDF, an empty file) answers 422 ' +
+        'and stores nothing.',
+      access: { authenticated: true },
+      params: shipmentParams,
+      before: [photoUpload()],
+      responses: {
+        201: { description: 'Stored.', schema: shipmentPhotoResponse },
+        403: error('The other side’s step.'),
+        409: error('`illegal_state` or `too_many_photos`.'),
+        422: error(
+          '`photo_missing`, `photo_empty`, `photo_too_large` or `unsupported_photo_type`.',
+        ),
+      },
+    },
+    async ({ req, res, params }) => {
+      const photo = await addShipmentPhoto(deps, currentAuth(req), params.id, req.file!.buffer);
+      res.status(201).json({ photo });
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/:id/photos/:photoId',
+      summary: 'A shipment photo (people who may see the shipment)',
+      description:
+        'Served with the type sniffed at upload, `X-Content-Type-Options: nosniff`, inline (an ' +
+        'image only) and a sandboxing Content-Security-Policy.',
+      access: { authenticated: true },
+      params: shipmentPhotoParams,
+      responses: { 200: { description: 'The image bytes.' }, 404: error('No such photo.') },
+    },
+    async ({ req, res, params }) => {
+      const photo = await readShipmentPhoto(deps, currentAuth(req), params.id, params.photoId);
+      res.setHeader('Content-Type', photo.contentType);
+      res.setHeader('X-Content-Type-Options', 'nosniff');
+      // Only JPEG, PNG or WebP are ever stored, so inline is an image; the policy keeps it inert.
+      res.setHeader('Content-Disposition', `inline; filename="${photo.filename}"`);
+      res.setHeader('Content-Security-Policy', "default-src 'none'; sandbox");
+      res.setHeader('Cache-Control', 'private, max-age=3600');
+      res.end(photo.data);
     },
   );
 

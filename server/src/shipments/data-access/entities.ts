@@ -379,6 +379,56 @@ export const ShipmentSettingsEntity = new EntitySchema<{
   ],
 });
 
+/** A row of `shipment_photos`: a receipt or inspection-finding photo in the uploads store. */
+export const ShipmentPhotoEntity = new EntitySchema<{
+  id: number;
+  shipmentId: number;
+  kind: string;
+  findingId: number | null;
+  storageKey: string;
+  contentType: string;
+  sizeBytes: number;
+  createdByUserId: number | null;
+  createdAt: Date;
+}>({
+  name: 'ShipmentPhoto',
+  tableName: 'shipment_photos',
+  columns: {
+    id: idColumn,
+    shipmentId: refColumn('shipment_id'),
+    kind: { type: 'varchar', length: 8 },
+    findingId: refColumn('finding_id', true),
+    storageKey: { type: 'varchar', length: 64, name: 'storage_key' },
+    contentType: { type: 'varchar', length: 16, name: 'content_type' },
+    sizeBytes: { type: 'int', unsigned: true, name: 'size_bytes' },
+    createdByUserId: refColumn('created_by_user_id', true),
+    createdAt: instantColumn('created_at'),
+  },
+  indices: [
+    { name: 'ix_shipment_photos_shipment', columns: ['shipmentId', 'kind'] },
+    { name: 'ix_shipment_photos_finding', columns: ['findingId'] },
+    { name: 'uq_shipment_photos_key', columns: ['storageKey'], unique: true },
+  ],
+  foreignKeys: [
+    {
+      name: 'fk_shipment_photos_shipment',
+      target: 'Shipment',
+      columnNames: ['shipmentId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+    {
+      name: 'fk_shipment_photos_finding',
+      target: 'InspectionFinding',
+      columnNames: ['findingId'],
+      referencedColumnNames: ['id'],
+      onDelete: 'RESTRICT',
+      onUpdate: 'RESTRICT',
+    },
+  ],
+});
+
 /** Every entity of the component, for the data source's list. */
 export const shipmentEntities = [
   ShipmentEntity,
@@ -387,6 +437,7 @@ export const shipmentEntities = [
   ShipmentScanEntity,
   ShipmentAlertEntity,
   InspectionFindingEntity,
+  ShipmentPhotoEntity,
   LoanSettlementEntity,
   ShipmentSettingsEntity,
 ];
@@ -394,6 +445,7 @@ export const shipmentEntities = [
 /** Tables the component owns, children first (for test truncation). */
 export const shipmentTables = [
   'loan_settlements',
+  'shipment_photos',
   'inspection_findings',
   'shipment_alerts',
   'shipment_events',

@@ -193,6 +193,9 @@ export type ShipmentPatch = Partial<
     | 'decontamination'
     | 'handedOverAt'
     | 'arrivedAt'
+    | 'dueBy'
+    | 'dueZone'
+    | 'overdueAt'
   >
 >;
 
@@ -210,6 +213,9 @@ const patchColumns: Record<keyof ShipmentPatch, string> = {
   decontamination: 'decontamination',
   handedOverAt: 'handed_over_at',
   arrivedAt: 'arrived_at',
+  dueBy: 'due_by',
+  dueZone: 'due_zone',
+  overdueAt: 'overdue_at',
 };
 
 export async function updateShipment(

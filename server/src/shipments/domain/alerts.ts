@@ -18,7 +18,12 @@ const alertWords: Record<ShipmentAlertKind, string> = {
   overdue: 'Alert sent: not delivered by the end of the deliver-by day.',
   return_reminder: 'Reminder sent: the return is due to ship soon.',
   return_late: 'Alert sent: the return was due to ship and has not.',
+  return_at_risk: 'Alert sent: expected back at the depot after the back-at-depot day.',
+  return_overdue: 'Alert sent: not received at the depot by the end of the back-at-depot day.',
 };
+
+/** Return states on the way back to the depot (the deadline is then the depot's). */
+const returnUnderway = ['handed_over', 'in_transit', 'exception'];
 
 interface Candidate {
   id: number;
@@ -42,6 +47,11 @@ export function dueAlerts(c: Candidate, now: Date): ShipmentAlertKind[] {
   if (c.direction === 'outbound') {
     if (Number(c.at_risk) === 1) out.push('at_risk');
     if (late) out.push('overdue');
+    return out;
+  }
+  if (returnUnderway.includes(c.state)) {
+    if (Number(c.at_risk) === 1) out.push('return_at_risk');
+    if (late) out.push('return_overdue');
     return out;
   }
   if (c.state !== 'awaiting_return') return out;
@@ -87,8 +97,11 @@ export async function runShipmentAlerts(deps: ShipmentsDeps, batch = 200): Promi
            OR (s.direction = 'return' AND s.state = 'awaiting_return'
                 AND ((s.due_by <= DATE_ADD(?, INTERVAL 7 DAY) AND ${alerted('return_reminder')})
                   OR (s.overdue_at <= ? AND ${alerted('return_late')})))
+           OR (s.direction = 'return' AND s.state IN ('handed_over', 'in_transit', 'exception')
+                AND ((s.at_risk = 1 AND ${alerted('return_at_risk')})
+                  OR (s.overdue_at <= ? AND ${alerted('return_overdue')})))
         ORDER BY s.id LIMIT ? FOR UPDATE SKIP LOCKED`,
-      [now, now, now, batch],
+      [now, now, now, now, batch],
     );
     let sent = 0;
     for (const c of rows) {

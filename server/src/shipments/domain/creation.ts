@@ -17,6 +17,18 @@ export function endOfDay(date: string, zone: string): Date {
   return DateTime.fromISO(date, { zone }).plus({ days: 1 }).startOf('day').toJSDate();
 }
 
+/**
+ * The deadline of a return leg once it is on its way: back at the depot by the loan's
+ * `backAtDepot` day, in the depot's calendar. Before the hand-over the leg's deadline is the
+ * hospital's (`returnShipBy`, campus calendar); the hand-over moves it to this one.
+ */
+export function returnArrivalDeadline(
+  backAtDepot: string,
+  depotZone: string,
+): { dueBy: string; dueZone: string; overdueAt: Date } {
+  return { dueBy: backAtDepot, dueZone: depotZone, overdueAt: endOfDay(backAtDepot, depotZone) };
+}
+
 /** Whether `gtin` is a 14-digit GTIN we can match scans against. */
 const gtin14 = (value: unknown): string | null =>
   typeof value === 'string' && /^\d{14}$/.test(value) ? value : null;

@@ -1,4 +1,4 @@
-import { addCalendarDays } from '@evalon/scheduling';
+import { addCalendarDays, shipmentEta, toSiteDate } from '@evalon/scheduling';
 import { buildSscc } from '@evalon/gs1';
 import type { EntityManager } from 'typeorm';
 import { applyLoanTransition, lockLoan } from '../../loans';
@@ -9,7 +9,12 @@ import {
   updateShipment,
   type ShipmentRow,
 } from '../data-access/shipment-repository';
-import { endOfDay, ensureOutboundShipments, ensureReturnShipment } from './creation';
+import {
+  endOfDay,
+  ensureOutboundShipments,
+  ensureReturnShipment,
+  returnArrivalDeadline,
+} from './creation';
 import { recordState } from './history';
 
 /** How far along the demo data takes a loan's shipments. */
@@ -26,6 +31,28 @@ export type DemoShipmentStage =
   | 'inspected';
 
 const DAY = 86_400_000;
+
+/** A return's expected arrival and depot deadline from its hand-over, as the hand-over sets them. */
+async function returnUnderway(
+  m: EntityManager,
+  ret: ShipmentRow,
+  backAtDepot: string,
+  campusZone: string,
+  handedOverAt: Date,
+) {
+  const [{ time_zone: depotZone }]: { time_zone: string }[] = await m.query(
+    'SELECT time_zone FROM sites WHERE id = ?',
+    [ret.depotId],
+  );
+  const eta = shipmentEta(
+    toSiteDate(handedOverAt, campusZone),
+    ret.transitDays,
+    ret.originCountry,
+    ret.destinationCountry,
+  );
+  const deadline = returnArrivalDeadline(backAtDepot, depotZone);
+  return { eta, atRisk: eta > deadline.dueBy, ...deadline };
+}
 
 /**
  * Demo data only: confirms an approved loan (as if its deposit had been waived) and walks its
@@ -49,7 +76,10 @@ export async function stageDemoShipments(
   );
   await ensureOutboundShipments(m, loanId, now);
   let state: string = 'confirmed';
-  const step = async (action: 'ship' | 'deliver' | 'start_return' | 'receive_return', to: string) => {
+  const step = async (
+    action: 'ship' | 'deliver' | 'start_return' | 'receive_return',
+    to: string,
+  ) => {
     await applyLoanTransition(
       m,
       { id: loanId, state: state as never },
@@ -239,6 +269,8 @@ export async function stageDemoShipments(
       trackingNumber: `WPR${String(loanId).padStart(7, '0')}`,
       carrierStatus: 'booked',
       handedOverAt: at(0.7),
+      // On its way back: expected at the depot by the transit rule, due by backAtDepot there.
+      ...(await returnUnderway(m, ret, loan.backAtDepot, loan.siteTimeZone, at(0.7))),
     },
     now,
   );

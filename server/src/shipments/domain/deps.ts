@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { Logger } from '../../logger';
 import type { NotifyShipmentEvent } from '../../notifications';
 import type { PaymentsDeps } from '../../payments';
+import type { FileStore } from '../../storage/file-store';
 import type { CarrierClient } from './carrier';
 
 /** What the shipment use cases need. */
@@ -14,4 +15,6 @@ export interface ShipmentsDeps {
   notify: NotifyShipmentEvent;
   /** The payments component, for settling deposits. */
   payments: PaymentsDeps;
+  /** The uploads file store (the one model photos use), for receipt and inspection photos. */
+  photoStore: FileStore;
 }

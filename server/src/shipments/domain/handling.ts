@@ -13,6 +13,7 @@ import {
 import { requireSide } from './access';
 import type { ShipmentsDeps } from './deps';
 import { recordState } from './history';
+import { returnArrivalDeadline } from './creation';
 import { advanceLoan } from './progress';
 
 /** Locks the shipment's loan, then its legs; 404 when unknown. */
@@ -119,6 +120,12 @@ export async function handOver(
       shipment.originCountry,
       shipment.destinationCountry,
     );
+    // A return's deadline becomes the depot's: back by the loan's backAtDepot (depot calendar).
+    const deadline =
+      shipment.direction === 'return'
+        ? returnArrivalDeadline(loan.backAtDepot, await siteZone(m, shipment.depotId))
+        : null;
+    const dueBy = deadline?.dueBy ?? shipment.dueBy;
     const patch = {
       state: 'handed_over' as const,
       carrier: deps.carrier.code,
@@ -128,7 +135,8 @@ export async function handOver(
       carrierRank: 0,
       handedOverAt: now,
       eta,
-      atRisk: shipment.direction === 'outbound' && eta > shipment.dueBy,
+      atRisk: eta > dueBy,
+      ...(deadline ?? {}),
     };
     await updateShipment(m, shipment.id, patch, now);
     await recordState(

@@ -5,7 +5,8 @@ import { bumpBookingVersion, insertHolds, lockUnits } from '../../catalog';
 import { applyLoanTransition, canSeeLoan, lockLoan } from '../../loans';
 import { settleDeposit } from '../../payments';
 import { lockLoanShipments, updateShipment } from '../data-access/shipment-repository';
-import { rolesOn } from './access';
+import { lenderOnly, rolesOn } from './access';
+import { claimFindingPhotos } from '../data-access/photo-repository';
 import type { ShipmentsDeps } from './deps';
 import { recordState } from './history';
 
@@ -17,6 +18,8 @@ export interface FindingInput {
   note: string;
   charge: number;
   needsRepair: boolean;
+  /** Waiting photos of the loan's return legs that show this finding. */
+  photoIds?: readonly number[];
 }
 
 /** How long a unit needing repair is held for maintenance (a product default; configurable later). */
@@ -26,12 +29,7 @@ function requireLender(auth: AuthContext, loan: { lenderId: number; hospitalId: 
   if (!loan || !canSeeLoan(auth, loan)) {
     throw AppError.notFound('loan_not_found', 'There is no such loan.');
   }
-  if (!rolesOn(auth, loan).lender) {
-    throw AppError.forbidden(
-      'forbidden',
-      'Only the lender’s coordinators and fleet managers can do this.',
-    );
-  }
+  if (!rolesOn(auth, loan).lender) throw lenderOnly();
 }
 
 /**
@@ -68,8 +66,16 @@ export async function recordInspection(
         throw AppError.field('unknown_unit', 'findings', `Unit ${f.unitId} is not on this loan.`);
       }
     }
+    const photoIds = findings.flatMap((f) => f.photoIds ?? []);
+    if (new Set(photoIds).size !== photoIds.length) {
+      throw AppError.field(
+        'photo_used_twice',
+        'findings',
+        'A photo can belong to one finding only.',
+      );
+    }
     for (const f of findings) {
-      await m.query(
+      const inserted: { insertId: number } = await m.query(
         `INSERT INTO inspection_findings (loan_id, unit_id, item_id, category, note, charge, currency,
             needs_repair, actor_user_id, created_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
         [
@@ -85,6 +91,21 @@ export async function recordInspection(
           now,
         ],
       );
+      const wanted = f.photoIds ?? [];
+      const tied = await claimFindingPhotos(
+        m,
+        returns.map((r) => r.id),
+        wanted,
+        Number(inserted.insertId),
+      );
+      if (tied !== wanted.length) {
+        // Rolls the whole inspection back: nothing is written on a bad photo reference.
+        throw AppError.field(
+          'unknown_photos',
+          'findings',
+          'Some photos are not waiting inspection photos of this loan’s returns; upload them again.',
+        );
+      }
     }
     for (const s of returns) {
       await updateShipment(m, s.id, { state: 'inspected' }, now);

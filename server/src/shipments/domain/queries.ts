@@ -11,6 +11,8 @@ import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { hospitalsOf, lendersOf } from '../../catalog';
 import { findEvents, findItems, findScans } from '../data-access/shipment-repository';
+import { findPhotos } from '../data-access/photo-repository';
+import { toShipmentPhoto } from './photos';
 import { rolesOn } from './access';
 import { isUnderway } from './states';
 
@@ -33,12 +35,13 @@ const fromClause = `FROM shipments s JOIN loans l ON l.id = s.loan_id
 /** Risk now: overdue once the deadline has passed while underway; at risk when the ETA is after it. */
 export function riskOf(
   state: ShipmentState,
-  direction: 'outbound' | 'return',
   atRisk: boolean,
   overdueAt: Date,
   now: Date,
 ): ShipmentRisk {
-  const open = direction === 'outbound' ? isUnderway(state) : state === 'awaiting_return';
+  // Open: an outbound leg until delivered; a return from waiting at the campus until the depot
+  // receives it (its deadline moves from the ship-back day to the back-at-depot day at hand-over).
+  const open = isUnderway(state);
   if (!open) return 'on_time';
   if (now.getTime() >= new Date(overdueAt).getTime()) return 'overdue';
   return atRisk ? 'at_risk' : 'on_time';
@@ -66,7 +69,7 @@ function toSummary(r: Sql, now: Date): ShipmentSummary {
     dueBy: String(r.due_by),
     shipBy: String(r.ship_by),
     eta: (r.eta as string) ?? null,
-    risk: riskOf(state, direction, Boolean(Number(r.at_risk)), r.overdue_at as Date, now),
+    risk: riskOf(state, Boolean(Number(r.at_risk)), r.overdue_at as Date, now),
     itemsDone: Number(r.items_done),
     itemsTotal: Number(r.items_total),
     updatedAt: (r.updated_at as Date).toISOString(),
@@ -131,7 +134,7 @@ export async function listShipments(
     args.push(q.loanId);
   }
   const open = `((s.direction = 'outbound' AND s.state IN ('to_pack','packed','handed_over','in_transit','exception'))
-    OR (s.direction = 'return' AND s.state = 'awaiting_return'))`;
+    OR (s.direction = 'return' AND s.state IN ('awaiting_return','handed_over','in_transit','exception')))`;
   if (q.risk === 'overdue') {
     where.push(`${open} AND s.overdue_at <= ?`);
     args.push(now);
@@ -179,6 +182,7 @@ export async function getShipment(
   const items = await findItems(m, id);
   const scans = await findScans(m, id);
   const events = await findEvents(m, id);
+  const photos = await findPhotos(m, id);
   const decontamination = json<{ method: string; by: string; at: string }>(r.decontamination);
   const receipt = json<{ allPresent: boolean; missing: string[]; notes: string; at: string }>(
     r.receipt,
@@ -250,6 +254,7 @@ export async function getShipment(
       occurredAt: (e.occurred_at as Date).toISOString(),
       by: (e.actor_name as string) ?? null,
     })),
+    photos: photos.map(toShipmentPhoto),
     receipt,
     decontamination,
     actions,

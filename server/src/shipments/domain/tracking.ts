@@ -72,7 +72,8 @@ export async function handleTrackingEvent(
     const next = target && moves ? target : s.state;
     if (event.estimatedDelivery && isUnderway(next)) {
       patch.eta = event.estimatedDelivery;
-      patch.atRisk = s.direction === 'outbound' && event.estimatedDelivery > s.dueBy;
+      // Outbound: after the deliver-by day; return (underway): after the back-at-depot day.
+      patch.atRisk = event.estimatedDelivery > s.dueBy;
     }
     if (event.status === 'delivered') {
       patch.arrivedAt = event.occurredAt;

@@ -25,6 +25,7 @@ describe('navigationFor', () => {
     expect(labels(['coordinator'])).toEqual(['Home', 'Shipments', 'Units']);
     expect(labels(['fleet_manager'])).toEqual([
       'Home',
+      'Shipments',
       'Catalog',
       'Approvals',
       'Credit agreements',

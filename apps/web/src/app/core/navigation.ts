@@ -121,8 +121,8 @@ export const builtDestinations: readonly Destination[] = [
     path: 'shipments',
     label: 'Shipments',
     icon: 'local_shipping',
-    // Coordinators run the board; fleet managers open it too.
-    roles: ['coordinator'],
+    // Coordinators work the board; fleet managers follow it read-only (the server decides).
+    roles: ['coordinator', 'fleet_manager'],
     summary:
       'Pack, ship, track and receive back every unit, with packing checklists, barcode scans and return inspections.',
   },

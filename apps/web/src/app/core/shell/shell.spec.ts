@@ -97,6 +97,7 @@ describe('Shell', () => {
     expect(navigate).toHaveBeenCalledWith('/');
     expect(await navLabels()).toEqual([
       'Home',
+      'Shipments',
       'Catalog',
       'Approvals',
       'Credit agreements',

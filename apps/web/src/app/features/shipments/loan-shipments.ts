@@ -20,6 +20,10 @@ export function taskFor(s: ShipmentSummary): string | null {
   return null;
 }
 
+/** Whether a return is on its way back to the depot (its deadline is then the depot's). */
+export const onTheWay = (s: ShipmentSummary): boolean =>
+  s.direction === 'return' && ['handed_over', 'in_transit', 'exception'].includes(s.state);
+
 /** The loan page's shipments card: each leg's state and tracking, and the hospital's return tasks. */
 @Component({
   selector: 'ev-loan-shipments',
@@ -43,6 +47,9 @@ export function taskFor(s: ShipmentSummary): string | null {
                   }
                   @if (s.eta && s.direction === 'outbound' && s.state !== 'delivered') {
                     · expected {{ s.eta | day }}
+                  }
+                  @if (s.eta && s.direction === 'return' && onTheWay(s)) {
+                    · expected at the depot {{ s.eta | day }}
                   }
                   @if (task(s); as t) {
                     <div class="task">
@@ -89,6 +96,7 @@ export class LoanShipments {
   protected readonly labels = shipmentStateLabels;
   protected readonly legs = signal<ShipmentSummary[]>([]);
   protected readonly task = taskFor;
+  protected readonly onTheWay = onTheWay;
 
   constructor() {
     toObservable(this.loanId)

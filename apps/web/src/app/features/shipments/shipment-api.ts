@@ -4,6 +4,8 @@ import type {
   ShipmentDetail,
   ShipmentDirection,
   ShipmentList,
+  ShipmentMapResponse,
+  ShipmentPhoto,
   ShipmentState,
 } from '@evalon/contracts';
 import { Observable, map } from 'rxjs';
@@ -40,6 +42,11 @@ export class ShipmentApi {
     return this.http.get<ShipmentList>('/api/shipments', { params });
   }
 
+  /** The lender's legs with the carrier now, with where they run between (the map). */
+  inTransit(): Observable<ShipmentMapResponse> {
+    return this.http.get<ShipmentMapResponse>('/api/shipments/in-transit');
+  }
+
   get(id: number): Observable<ShipmentDetail> {
     return this.http
       .get<{ shipment: ShipmentDetail }>(`/api/shipments/${id}`)
@@ -72,6 +79,20 @@ export class ShipmentApi {
   decontamination(id: number, body: { method: string; by: string; at: string }) {
     return this.step(id, 'decontamination', body);
   }
+  /** One receipt or inspection photo (multipart field `photo`); the server sniffs the type. */
+  uploadPhoto(id: number, file: File): Observable<ShipmentPhoto> {
+    const form = new FormData();
+    form.append('photo', file, file.name);
+    return this.http
+      .post<{ photo: ShipmentPhoto }>(`/api/shipments/${id}/photos`, form)
+      .pipe(map((r) => r.photo));
+  }
+
+  /** Where a photo's bytes are served (to the people who may see the shipment). */
+  photoUrl(shipmentId: number, photoId: number): string {
+    return `/api/shipments/${shipmentId}/photos/${photoId}`;
+  }
+
   receive(id: number): Observable<{ shipment: ShipmentDetail; missing: string[] }> {
     return this.http.post<{ shipment: ShipmentDetail; missing: string[] }>(
       `/api/shipments/${id}/receive`,
@@ -86,6 +107,7 @@ export class ShipmentApi {
       charge: number;
       needsRepair: boolean;
       unitId?: number;
+      photoIds?: number[];
     }[],
   ): Observable<void> {
     return this.http.post<void>(`/api/loans/${loanId}/inspection`, { findings });

@@ -19,6 +19,7 @@ import {
 } from '@evalon/contracts';
 import { catchError, forkJoin, map, of, switchMap, tap } from 'rxjs';
 import { messageOf } from '../../core/api-error';
+import { SessionStore } from '../../core/session-store';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { DayPipe } from '../../shared/formats';
 import { PageHeader } from '../../shared/page-header/page-header';
@@ -79,6 +80,11 @@ const queues = [
 })
 export class ShipmentBoard {
   private readonly api = inject(ShipmentApi);
+  private readonly session = inject(SessionStore);
+  /** Lender people (and the admin) have the map of legs in transit. */
+  protected readonly hasMap = computed(() =>
+    this.session.hasAnyRole(['coordinator', 'fleet_manager', 'admin']),
+  );
 
   protected readonly states = shipmentStates;
   protected readonly stateLabels = shipmentStateLabels;

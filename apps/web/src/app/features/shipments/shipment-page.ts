@@ -18,8 +18,14 @@ import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { RouterLink } from '@angular/router';
-import { carrierStatusLabels, shipmentStateLabels, type ShipmentDetail } from '@evalon/contracts';
-import { catchError, of, switchMap, type Observable } from 'rxjs';
+import {
+  carrierStatusLabels,
+  shipmentPhotoLimits,
+  shipmentStateLabels,
+  type ShipmentDetail,
+  type ShipmentPhoto,
+} from '@evalon/contracts';
+import { catchError, concatMap, from, of, switchMap, toArray, type Observable } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
 import { Cautions } from '../../shared/cautions/cautions';
@@ -75,6 +81,26 @@ interface FindingDraft {
   /** In major units as typed; sent in minor units. */
   charge: number;
   needsRepair: boolean;
+  /** Photos uploaded for this finding, sent as `photoIds`. */
+  photos: ShipmentPhoto[];
+}
+
+/** Types the server keeps; the file picker offers only these. */
+export const photoAccept = 'image/jpeg,image/png,image/webp';
+
+/**
+ * Why a chosen file cannot be a shipment photo, or null. A first check in the browser so the
+ * person hears at once; the server decides from the bytes.
+ */
+export function photoProblem(file: File): string | null {
+  if (file.size === 0) return `${file.name} is empty.`;
+  if (file.size > shipmentPhotoLimits.maxBytes) {
+    return `${file.name} is larger than ${shipmentPhotoLimits.maxBytes / (1024 * 1024)} MB.`;
+  }
+  if (!photoAccept.split(',').includes(file.type)) {
+    return `${file.name} is not a JPEG, PNG or WebP photo.`;
+  }
+  return null;
 }
 
 /**
@@ -129,6 +155,15 @@ export class ShipmentPage {
     return s ? historyOf(s) : [];
   });
   protected readonly can = (action: string) => this.shipment()?.actions.includes(action) ?? false;
+  protected readonly photoAccept = photoAccept;
+  protected readonly limits = shipmentPhotoLimits;
+  protected readonly receiptPhotos = computed(
+    () => this.shipment()?.photos.filter((p) => p.kind === 'receipt') ?? [],
+  );
+  protected readonly findingPhotos = computed(
+    () => this.shipment()?.photos.filter((p) => p.kind === 'finding' && p.findingId) ?? [],
+  );
+  protected readonly photoUrl = (photoId: number) => this.api.photoUrl(Number(this.id()), photoId);
 
   private readonly scanField = viewChild<ElementRef<HTMLInputElement>>('scanField');
   private readonly video = viewChild<ElementRef<HTMLVideoElement>>('video');
@@ -286,7 +321,7 @@ export class ShipmentPage {
   protected addFinding(): void {
     this.findings.update((f) => [
       ...f,
-      { category: 'damage', note: '', charge: 0, needsRepair: false },
+      { category: 'damage', note: '', charge: 0, needsRepair: false, photos: [] },
     ]);
   }
 
@@ -297,15 +332,55 @@ export class ShipmentPage {
   protected inspect(): void {
     const s = this.shipment()!;
     // Charges are typed in major units; the currencies on this board have two decimals (ISO 4217).
-    const findings = this.findings().map((f) => ({
+    const findings = this.findings().map(({ photos, ...f }) => ({
       ...f,
       charge: Math.round(Number(f.charge) * 100),
+      photoIds: photos.map((p) => p.id),
     }));
     this.run(this.api.inspect(s.loanId, findings), () => {
       this.findings.set([]);
       this.reload();
       this.notifier.success('Inspection recorded.');
     });
+  }
+
+  /**
+   * Uploads the chosen photos one after another (the server counts them against the limit) and
+   * hands the stored ones on. Files the browser can already tell are wrong are not sent.
+   */
+  private uploadPhotos(input: HTMLInputElement, room: number, done: (p: ShipmentPhoto[]) => void) {
+    const files = Array.from(input.files ?? []);
+    input.value = '';
+    const problems = files.map(photoProblem).filter((p): p is string => p !== null);
+    if (problems.length > 0) {
+      this.notifier.error(problems.join(' '));
+      return;
+    }
+    if (files.length === 0) return;
+    if (files.length > room) {
+      this.notifier.error(`Choose at most ${room} more photo${room === 1 ? '' : 's'}.`);
+      return;
+    }
+    const id = Number(this.id());
+    this.run(
+      from(files).pipe(
+        concatMap((f) => this.api.uploadPhoto(id, f)),
+        toArray(),
+      ),
+      done,
+    );
+  }
+
+  protected addReceiptPhotos(event: Event): void {
+    const room = this.limits.perReceipt - this.receiptPhotos().length;
+    this.uploadPhotos(event.target as HTMLInputElement, room, () => this.reload());
+  }
+
+  protected addFindingPhotos(i: number, event: Event): void {
+    const room = this.limits.perFinding - this.findings()[i].photos.length;
+    this.uploadPhotos(event.target as HTMLInputElement, room, (added) =>
+      this.patchFinding(i, { photos: [...this.findings()[i].photos, ...added] }),
+    );
   }
 
   protected settle(): void {

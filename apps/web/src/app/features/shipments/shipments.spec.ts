@@ -11,9 +11,9 @@ import { MatTableHarness } from '@angular/material/table/testing';
 import { provideRouter } from '@angular/router';
 import type { ShipmentDetail, ShipmentSummary } from '@evalon/contracts';
 import { errorInterceptor } from '../../core/interceptors';
-import { taskFor } from './loan-shipments';
+import { onTheWay, taskFor } from './loan-shipments';
 import { ShipmentBoard } from './shipment-board';
-import { ShipmentPage, historyOf } from './shipment-page';
+import { ShipmentPage, historyOf, photoProblem } from './shipment-page';
 
 const summary = (over: Partial<ShipmentSummary> = {}): ShipmentSummary => ({
   id: 7,
@@ -66,6 +66,7 @@ const detail = (over: Partial<ShipmentDetail> = {}): ShipmentDetail => ({
   ],
   scans: [],
   events: [],
+  photos: [],
   receipt: null,
   decontamination: null,
   actions: ['scan', 'pack'],
@@ -218,5 +219,135 @@ describe('ShipmentPage', () => {
       /Decontaminate/,
     );
     expect(taskFor(summary())).toBeNull();
+  });
+});
+
+describe('shipment photos on the page', () => {
+  const file = (name: string, type: string, bytes: number) =>
+    new File([new Uint8Array(bytes)], name, { type });
+  const choose = (input: HTMLInputElement, files: File[]) => {
+    Object.defineProperty(input, 'files', { configurable: true, value: files });
+    input.dispatchEvent(new Event('change'));
+  };
+  const photo = (id: number, over: Partial<ShipmentDetail['photos'][number]> = {}) => ({
+    id,
+    kind: 'receipt' as const,
+    findingId: null,
+    caption: null,
+    contentType: 'image/png' as const,
+    sizeBytes: 10,
+    createdAt: '2026-12-03T10:00:00.000Z',
+    by: 'Dana',
+    ...over,
+  });
+
+  it('refuses in the browser what the server would refuse: empty, too big, not a photo', () => {
+    expect(photoProblem(file('a.png', 'image/png', 0))).toMatch(/empty/);
+    expect(photoProblem(file('a.png', 'image/png', 5 * 1024 * 1024 + 1))).toMatch(/5 MB/);
+    expect(photoProblem(file('a.svg', 'image/svg+xml', 10))).toMatch(/not a JPEG, PNG or WebP/);
+    expect(photoProblem(file('a.pdf', 'application/pdf', 10))).toMatch(/not a JPEG/);
+    expect(photoProblem(file('a.webp', 'image/webp', 10))).toBeNull();
+  });
+
+  it('uploads receipt photos one by one and shows the thumbnails', async () => {
+    const http = setup();
+    const fixture = TestBed.createComponent(ShipmentPage);
+    fixture.componentRef.setInput('id', '7');
+    await fixture.whenStable();
+    http
+      .expectOne('/api/shipments/7')
+      .flush({ shipment: detail({ state: 'delivered', actions: ['receipt'] }) });
+    await settle(fixture);
+
+    const input = fixture.nativeElement.querySelector('#receipt-photo-file') as HTMLInputElement;
+    choose(input, [file('a.jpg', 'image/jpeg', 20), file('b.png', 'image/png', 30)]);
+    const first = http.expectOne('/api/shipments/7/photos');
+    expect((first.request.body as FormData).get('photo')).toBeInstanceOf(File);
+    first.flush({ photo: photo(1) });
+    http.expectOne('/api/shipments/7/photos').flush({ photo: photo(2) });
+    http.expectOne('/api/shipments/7').flush({
+      shipment: detail({ state: 'delivered', actions: ['receipt'], photos: [photo(1), photo(2)] }),
+    });
+    await settle(fixture);
+    const imgs = Array.from(
+      fixture.nativeElement.querySelectorAll('.photos img') as NodeListOf<HTMLImageElement>,
+    );
+    expect(imgs.map((i) => i.getAttribute('src'))).toEqual([
+      '/api/shipments/7/photos/1',
+      '/api/shipments/7/photos/2',
+    ]);
+    expect(imgs[0].alt).toBe('Receipt photo 1 by Dana');
+
+    // An SVG never leaves the browser.
+    choose(input, [file('x.svg', 'image/svg+xml', 10)]);
+    http.expectNone('/api/shipments/7/photos');
+    http.verify();
+  });
+
+  it('sends the finding’s photos as photoIds with the inspection', async () => {
+    const http = setup();
+    const fixture = TestBed.createComponent(ShipmentPage);
+    fixture.componentRef.setInput('id', '7');
+    const loader = TestbedHarnessEnvironment.loader(fixture);
+    await fixture.whenStable();
+    http.expectOne('/api/shipments/7').flush({
+      shipment: detail({ direction: 'return', state: 'received', actions: ['inspect'] }),
+    });
+    await settle(fixture);
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Add finding/ }))).click();
+    const input = fixture.nativeElement.querySelector(
+      'input[aria-label="Inspection photo files, row 1"]',
+    ) as HTMLInputElement;
+    choose(input, [file('crack.jpg', 'image/jpeg', 20)]);
+    http
+      .expectOne('/api/shipments/7/photos')
+      .flush({ photo: photo(9, { kind: 'finding', contentType: 'image/jpeg' }) });
+    await settle(fixture);
+    expect(
+      fixture.nativeElement.querySelector('ul[aria-label="Inspection photos, row 1"] img')?.src,
+    ).toContain('/api/shipments/7/photos/9');
+
+    await (await loader.getHarness(MatButtonHarness.with({ text: /Record inspection/ }))).click();
+    const inspection = http.expectOne('/api/loans/10/inspection');
+    expect(inspection.request.body.findings).toEqual([
+      { category: 'damage', note: '', charge: 0, needsRepair: false, photoIds: [9] },
+    ]);
+    inspection.flush(null);
+    http.expectOne('/api/shipments/7').flush({ shipment: detail() });
+    http.verify();
+  });
+});
+
+describe('a return on its way', () => {
+  it('shows the depot’s deadline and the expected arrival there', async () => {
+    const http = setup();
+    const fixture = TestBed.createComponent(ShipmentPage);
+    fixture.componentRef.setInput('id', '8');
+    await fixture.whenStable();
+    http.expectOne('/api/shipments/8').flush({
+      shipment: detail({
+        id: 8,
+        direction: 'return',
+        state: 'in_transit',
+        shipBy: '2027-01-15',
+        dueBy: '2027-01-20',
+        eta: '2027-01-22',
+        risk: 'at_risk',
+        actions: [],
+      }),
+    });
+    await settle(fixture);
+    const facts = Array.from(
+      fixture.nativeElement.querySelectorAll('.facts dt') as NodeListOf<HTMLElement>,
+    ).map((d) => [d.textContent!.trim(), d.nextElementSibling!.textContent!.trim()]);
+    expect(facts.slice(0, 4)).toEqual([
+      ['Ship back by', 'Fri, Jan 15, 2027'],
+      ['Back at depot by', 'Wed, Jan 20, 2027 (depot calendar)'],
+      ['Expected at the depot', 'Fri, Jan 22, 2027'],
+      ['Risk', 'At risk'],
+    ]);
+    expect(onTheWay(summary({ direction: 'return', state: 'handed_over' }))).toBe(true);
+    expect(onTheWay(summary({ direction: 'return', state: 'received' }))).toBe(false);
+    http.verify();
   });
 });
