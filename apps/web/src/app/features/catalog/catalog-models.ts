@@ -19,7 +19,7 @@ import { noLender } from '../../core/api-error';
 import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { modelCategories, modelCategoryLabels } from './catalog-rules';
+import { modelCategories, modelCategoryLabels } from '@evalon/contracts/values';
 import { depositRuleShort } from './money';
 
 /** A model with what the table shows already worked out. */

@@ -34,7 +34,12 @@ import { EmptyState } from '../../shared/empty-state/empty-state';
 import { applyServerErrors } from '../../shared/forms';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { modelCategories, modelCategoryLabels, modelLimits, padGtin } from './catalog-rules';
+import {
+  modelCategories,
+  modelCategoryLabels,
+  modelLimits,
+  padGtin,
+} from '@evalon/contracts/values';
 import { ModelPhotos } from './model-photos';
 import {
   buildModelForm,

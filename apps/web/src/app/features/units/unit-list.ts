@@ -34,13 +34,8 @@ import { formatWindow, todayIn } from '../../shared/iso-date';
 import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { PillTone, StatusPill } from '../../shared/status-pill/status-pill';
-import {
-  modelCategoryLabels,
-  unitStatusIcons,
-  unitStatusLabels,
-  unitStatusTones,
-  unitStatuses,
-} from '../catalog/catalog-rules';
+import { modelCategoryLabels, unitStatusLabels, unitStatuses } from '@evalon/contracts/values';
+import { unitStatusIcons, unitStatusTones } from './unit-status';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { UnitDialog, UnitDialogData } from './unit-dialog';
 import { UnitsApi } from './units-api';
