@@ -6,7 +6,7 @@ import {
   type ShipmentAlertKind,
 } from '@evalon/messages';
 import type { Config } from '../../config';
-import { notifyUsers, recipientsFor, type Recipient } from './in-app';
+import { noticeDay, notifyUsers, recipientsFor, type Recipient } from './in-app';
 import { enqueueEmail } from './outbox';
 
 /** What the shipments component says happened. */
@@ -125,7 +125,7 @@ export function createShipmentNotifier(options: {
           {
             kind: `shipment.${notice.kind}`,
             title: `${alertTitles[notice.kind]}: ${leg.reference}`,
-            body: `Loan ${leg.loan_reference}, ${leg.direction === 'outbound' ? 'deliver by' : 'ship back by'} ${leg.due_by} (campus calendar).`,
+            body: `Loan ${leg.loan_reference}, ${leg.direction === 'outbound' ? 'deliver by' : 'ship back by'} ${noticeDay(leg.due_by)} (campus calendar).`,
             link: url.slice(base.length),
             dedupeKey: `shipment:${leg.shipment_id}:${notice.kind}:${url.slice(base.length)}`,
           },

@@ -13,6 +13,19 @@ describe('timeAgo', () => {
     expect(timeAgo('2026-11-28T12:00:00.000Z', now)).toBe('4 days ago');
   });
 
+  it('never counts seconds: the same instant, the first minute and a clock a little ahead', () => {
+    // Intl.RelativeTimeFormat would print "in 0 seconds" / "now" / "0 seconds ago" for these; the
+    // one-minute "just now" threshold is ours (common practice in notification lists).
+    for (const at of [
+      '2026-12-02T12:00:00.000Z',
+      '2026-12-02T11:59:00.001Z',
+      '2026-12-02T12:00:05.000Z',
+    ]) {
+      expect(timeAgo(at, now)).toBe('just now');
+    }
+    expect(timeAgo('2026-12-02T11:59:00.000Z', now)).toBe('1 minute ago');
+  });
+
   it('gives the date for older times, with the year only when it differs', () => {
     expect(timeAgo('2026-11-02T12:00:00.000Z', now)).toBe('Nov 2');
     expect(timeAgo('2025-11-02T12:00:00.000Z', now)).toBe('Nov 2, 2025');

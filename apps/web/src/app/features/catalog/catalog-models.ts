@@ -96,7 +96,10 @@ export class CatalogModels {
     const answer = this.models.answer();
     if (!answer) return '';
     const { total, unitTotal } = answer;
-    return `${total} ${total === 1 ? 'model' : 'models'} · ${unitTotal} ${unitTotal === 1 ? 'unit' : 'units'}`;
+    // Retired units are not counted here (nor in the Units column): they can never be lent. The
+    // units page counts them, so it says one more when one unit is retired; "in service" tells
+    // the reader which number this is.
+    return `${total} ${total === 1 ? 'model' : 'models'} · ${unitTotal} ${unitTotal === 1 ? 'unit' : 'units'} in service`;
   });
 
   /** The category filter's value, for the select. */
