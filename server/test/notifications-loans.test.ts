@@ -29,7 +29,7 @@ const asLoansHook = (n: NotifyLoanEvent): LoansHook => n;
 
 // An invented loan (demo-data style). Milestones as in packages/messages' test loan, whose
 // hospital is in New York; February 2027 is standard time in every zone used here (the 2027
-// changes are 2027-03-14 in the US and 2027-03-28 in the EU: reference-values.md).
+// changes are 2027-03-14 in the US and 2027-03-28 in the EU: docs/references.md).
 const M = {
   shipBy: '2027-03-08',
   deliverBy: '2027-03-11',

@@ -2,14 +2,14 @@ import { gs1CheckDigit, gtin14, isValidGtin, modelInput, toGtin14 } from './cata
 import { gtin14Problem, modelLimits, padGtin } from './values';
 
 // The GS1 check-digit helper shared by the server and the web app (this package), checked
-// against the published examples collected in /work/shared/reference-values.md.
+// against the published examples collected in docs/references.md.
 describe('GS1 check digit (GS1 General Specifications §7.9.1)', () => {
   it('matches the published examples', () => {
     // GS1 India check-digit page: 890400021003 → 7.
     expect(gs1CheckDigit('890400021003')).toBe(7);
     // GS1 Sweden check-digit page: 730001100001 → 7.
     expect(gs1CheckDigit('730001100001')).toBe(7);
-    // reference-values.md: 629104150021 → 3.
+    // docs/references.md: 629104150021 → 3.
     expect(gs1CheckDigit('629104150021')).toBe(3);
     // GTIN-14 09521234543213 is valid (derived; the barcode writer's wiki UDI example).
     expect(isValidGtin('09521234543213')).toBe(true);
