@@ -1,12 +1,7 @@
 import type { Photo } from '@evalon/contracts';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
-import {
-  countPhotos,
-  deletePhoto,
-  findPhoto,
-  insertPhoto,
-} from '../data-access/catalog-repository';
+import { countPhotos, deletePhoto, findPhoto, insertPhoto } from '../data-access/photo-repository';
 import type { CatalogDeps } from './deps';
 import { modelForChange, toPhoto } from './models';
 import { newPhotoKey, photoExtensions } from './photo-store';
