@@ -38,6 +38,27 @@ export function timeAgo(
 }
 
 /**
+ * How long ago `at` was at any distance, in the largest whole unit: "just now" under a minute
+ * (never "0 seconds ago"), then minutes, hours, days, months (30-day steps) and years. For
+ * columns that show the exact time beside it, where a date would say the same thing twice.
+ */
+export function timeSince(at: string, now: Date = new Date(), locale = 'en-US'): string {
+  const then = Date.parse(at);
+  if (Number.isNaN(then)) return '';
+  const ms = Math.max(0, now.getTime() - then);
+  const words = new Intl.RelativeTimeFormat(locale, { numeric: 'auto' });
+  if (ms < MINUTE_MS) return 'just now';
+  if (ms < HOUR_MS) return words.format(-Math.floor(ms / MINUTE_MS), 'minute');
+  if (ms < DAY_MS) return words.format(-Math.floor(ms / HOUR_MS), 'hour');
+  const days = Math.floor(ms / DAY_MS);
+  if (days < 30) return words.format(-days, 'day');
+  // "1 month ago" rather than "last month", which reads as the calendar month before this one.
+  const counted = new Intl.RelativeTimeFormat(locale, { numeric: 'always' });
+  if (days < 365) return counted.format(-Math.floor(days / 30), 'month');
+  return counted.format(-Math.floor(days / 365), 'year');
+}
+
+/**
  * How far away a deadline is, counting whole units still left (never rounding up, so "due in 2
  * days" always means at least 48 hours): days from 48 hours on, then hours, then minutes.
  * Returns null once the deadline has passed.
