@@ -11,7 +11,6 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import type { Model, ModelCategory, ModelPage } from '@evalon/contracts';
 import { modelSortFields } from '@evalon/contracts/values';
 import { formatMoney } from '@evalon/deposits';
-import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { throwError } from 'rxjs';
@@ -21,6 +20,7 @@ import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
 import { modelCategories, modelCategoryLabels } from '@evalon/contracts/values';
 import { depositRuleShort } from './money';
+import { activeLender } from '../../shared/active-lender';
 
 /** A model with what the table shows already worked out. */
 export interface ModelRow {
@@ -56,16 +56,12 @@ export interface ModelRow {
 })
 export class CatalogModels {
   private readonly api = inject(LenderCatalogApi);
-  private readonly session = inject(SessionStore);
 
   protected readonly categories = modelCategories;
   protected readonly categoryLabels = modelCategoryLabels;
   protected readonly columns = ['name', 'category', 'listValue', 'deposit', 'units', 'actions'];
 
-  protected readonly lender = computed(() => {
-    const organisation = this.session.activeOrganisation();
-    return organisation?.kind === 'lender' ? organisation : null;
-  });
+  protected readonly lender = activeLender();
 
   /** Page, size, order, search words and category, in the URL. */
   protected readonly query = listQuery({

@@ -11,7 +11,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSlideToggle, MatSlideToggleChange } from '@angular/material/slide-toggle';
 import { MatTableModule } from '@angular/material/table';
 import type { CreditAgreement } from '@evalon/contracts';
@@ -26,6 +25,8 @@ import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { StatusPill } from '../../shared/status-pill/status-pill';
 import { CreditAgreementsApi, KnownHospital } from './credit-agreements-api';
+import { LoadError, LoadingBar } from '../../shared/list-page';
+import { activeLender } from '../../shared/active-lender';
 
 /** One hospital in the table: its agreement (if one was ever recorded) and its loans with us. */
 export interface AgreementRow {
@@ -71,12 +72,13 @@ export function agreementRows(
 @Component({
   selector: 'ev-credit-agreements',
   imports: [
+    LoadError,
+    LoadingBar,
     Cautions,
     EmptyState,
     MatButtonModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     MatSlideToggle,
     MatTableModule,
     PageHeader,
@@ -94,10 +96,7 @@ export class CreditAgreements {
   private readonly locale = inject(LOCALE_ID);
 
   protected readonly columns = ['hospital', 'status', 'record', 'switch'];
-  protected readonly lender = computed(() => {
-    const o = this.session.activeOrganisation();
-    return o?.kind === 'lender' ? o : null;
-  });
+  protected readonly lender = activeLender();
   protected readonly rows = signal<AgreementRow[]>([]);
   protected readonly loading = signal(true);
   protected readonly loaded = signal(false);

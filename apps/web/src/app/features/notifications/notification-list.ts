@@ -11,7 +11,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Router } from '@angular/router';
 import type { Notification } from '@evalon/contracts';
 import { catchError, of, switchMap, tap } from 'rxjs';
@@ -23,6 +22,7 @@ import { EmptyState } from '../../shared/empty-state/empty-state';
 import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { timeAgo } from '../../shared/relative-time';
+import { LoadError, LoadingBar } from '../../shared/list-page';
 
 /** How many notifications a page of the list holds. */
 export const NOTIFICATION_PAGE_SIZE = 20;
@@ -55,12 +55,13 @@ interface Row {
 @Component({
   selector: 'ev-notification-list',
   imports: [
+    LoadError,
+    LoadingBar,
     EmptyState,
     MatButtonModule,
     MatButtonToggleModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     PageHeader,
   ],
   templateUrl: './notification-list.html',

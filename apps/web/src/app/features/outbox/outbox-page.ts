@@ -12,7 +12,6 @@ import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCardModule } from '@angular/material/card';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
 import type { OutboxMessage, OutboxStatus } from '@evalon/contracts';
 import { catchError, filter, of, switchMap, tap } from 'rxjs';
@@ -25,6 +24,7 @@ import { EmptyState } from '../../shared/empty-state/empty-state';
 import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { OutboxApi } from './outbox-api';
+import { LoadError, LoadingBar } from '../../shared/list-page';
 
 /** The statuses the admin can look at, most useful first. */
 const shownStatuses: readonly OutboxStatus[] = ['parked', 'pending', 'sent'];
@@ -37,12 +37,13 @@ const shownStatuses: readonly OutboxStatus[] = ['parked', 'pending', 'sent'];
 @Component({
   selector: 'ev-outbox-page',
   imports: [
+    LoadError,
+    LoadingBar,
     EmptyState,
     MatButtonModule,
     MatButtonToggleModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     MatTableModule,
     PageHeader,
   ],

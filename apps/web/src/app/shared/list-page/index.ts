@@ -22,3 +22,4 @@ export const ListPageParts = [
   ListNoRows,
   RowLink,
 ] as const;
+export * from './load-state';
