@@ -7,12 +7,10 @@
  * tracked source file and fails with the file, line and citation of any that names a missing
  * Markdown file, or a missing path under one of the repository's top-level folders.
  */
-import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import ts from 'typescript';
-
-const root = path.resolve(__dirname, '../..');
+import { repoRoot as root, trackedFiles } from './tracked-files';
 
 /** Source files whose comments are read. */
 const scriptFile = /\.(c|m)?(t|j)sx?$/;
@@ -37,19 +35,9 @@ const pendingElsewhere: readonly string[] = [
   'packages/matching/src/recurrence.spec.ts',
 ];
 
-function trackedFiles(): string[] {
-  const out = execFileSync(
-    'git',
-    ['ls-files', '-z', '--cached', '--others', '--exclude-standard'],
-    {
-      cwd: root,
-      encoding: 'utf8',
-      maxBuffer: 64 * 1024 * 1024,
-    },
-  );
-  return out
-    .split('\0')
-    .filter((f) => f && [scriptFile, styleFile, markupFile].some((re) => re.test(f)))
+function sourceFiles(): string[] {
+  return trackedFiles()
+    .filter((f) => [scriptFile, styleFile, markupFile].some((re) => re.test(f)))
     .filter((f) => fs.existsSync(path.join(root, f)));
 }
 
@@ -141,7 +129,7 @@ function missingCitations(file: string): string[] {
 }
 
 describe('files cited in comments', () => {
-  const files = trackedFiles();
+  const files = sourceFiles();
 
   it('reads the repository (sanity: server, client and package sources are among the files)', () => {
     expect(files).toEqual(
