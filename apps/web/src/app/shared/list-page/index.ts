@@ -23,3 +23,4 @@ export const ListPageParts = [
   RowLink,
 ] as const;
 export * from './load-state';
+export * from './load-on-change';
