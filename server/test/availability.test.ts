@@ -99,7 +99,7 @@ describe('availability search', () => {
     });
     expect(item.milestones).toEqual(expected.milestones);
     // The first loan of a model: 3 hospital business days lie in [deliverBy, useFrom)
-    // (sample hospital loaner policies: 72 h for new sets; product.md §1).
+    // (sample hospital loaner policies: 72 h for new sets; docs/design/product.md §1).
     expect(businessDaysBetween(item.milestones.deliverBy!, useFrom, 'US')).toBe(3);
     // Distance from the same great-circle function the package uses; ~300 km apart.
     expect(item.distanceKm).toBeCloseTo(
@@ -205,7 +205,7 @@ describe('availability search', () => {
     const again = await search(ownBuyer, { modelId, siteId: own.campusId, useFrom, useTo });
     const item = again.items.find((i) => i.unitId === second)!;
     expect(item).toMatchObject({ feasible: true, firstLoanOfModel: false, leadDays: 2 });
-    // 48 h for known sets: 2 business days in [deliverBy, useFrom) (product.md §1).
+    // 48 h for known sets: 2 business days in [deliverBy, useFrom) (docs/design/product.md §1).
     expect(businessDaysBetween(item.milestones.deliverBy!, useFrom, 'US')).toBe(2);
     const mine = again.items.find((i) => i.unitId === first)!;
     expect(mine).toMatchObject({ feasible: false, reasonCode: 'booked_by_you' });

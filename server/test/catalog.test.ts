@@ -144,7 +144,7 @@ describe('depots and shipping settings', () => {
 
   it('shows the product defaults, then saves and reads back the lender’s own', async () => {
     const first = await fleet.agent.get(`/api/lenders/${lender.id}/shipping-settings`).expect(200);
-    // product.md §1 defaults: lead 2, first loan 3, decontamination 1, turnaround 2.
+    // docs/design/product.md §1 defaults: lead 2, first loan 3, decontamination 1, turnaround 2.
     expect(first.body).toMatchObject({
       isDefault: true,
       settings: { leadDays: 2, firstLoanLeadDays: 3, decontaminationDays: 1, turnaroundDays: 2 },

@@ -29,7 +29,7 @@ const asLoansHook = (n: NotifyLoanEvent): LoansHook => n;
 
 // An invented loan (demo-data style). Milestones as in packages/messages' test loan, whose
 // hospital is in New York; February 2027 is standard time in every zone used here (the 2027
-// changes are 2027-03-14 in the US and 2027-03-28 in the EU: reference-values.md).
+// changes are 2027-03-14 in the US and 2027-03-28 in the EU: docs/references.md).
 const M = {
   shipBy: '2027-03-08',
   deliverBy: '2027-03-11',
@@ -260,6 +260,14 @@ describe('notifyLoanEvent', () => {
           link: `/loans/${f.loanId}`,
         })),
     );
+    // The notice writes the first case day as the web app does, not as an ISO date: 2027-03-15
+    // is a Monday (the US clocks change on Sunday 2027-03-14, 15 U.S.C. 260a).
+    const [body] = await t.dataSource.query(
+      'SELECT body FROM notifications WHERE dedupe_key LIKE ? LIMIT 1',
+      [`loan:${f.loanId}:%`],
+    );
+    expect(body.body).toContain('first case day Mon, Mar 15, 2027.');
+    expect(body.body).not.toMatch(/\d{4}-\d{2}-\d{2}/);
   });
 
   it('approved: e-mails the buyers the deposit link and the deadline in their zone (campus zone by default)', async () => {

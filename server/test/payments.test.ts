@@ -3,7 +3,7 @@
 // official SDK by the server. The app listens on a loopback port so that the fake's signed
 // webhooks reach it, exactly as in production.
 //
-// Outside references used below (/work/shared/reference-values.md, "Money and payments", from
+// Outside references used below (docs/references.md, "Money and payments", from
 // the payment provider's public documentation): webhook header `t=<unix>,v1=<HMAC-SHA256>` with
 // a default tolerance of 300 s; amounts in the smallest currency unit; online card
 // authorisations valid 7 days.

@@ -1,5 +1,5 @@
 // Packing by scans against the real database and the payments fake (for the confirmed loan).
-// Outside references (/work/shared/reference-values.md, "GS1 barcodes and UDI"): the barcode
+// Outside references (docs/references.md, "GS1 barcodes and UDI"): the barcode
 // writer's wiki example element string and its fields; the GS1 mod-10 check digit; the SSCC
 // structure (GS1 General Specifications, AI 00) with the derived example 106141411234567897.
 import { buildElementString, parseElementString } from '@evalon/gs1';

@@ -187,7 +187,7 @@ export async function invite(page: Page, person: NewPerson, roleLabel: string): 
   await expect(row).toContainText('Invitation sent');
 }
 
-/** Subject of the invitation e-mail (server/src/notifications/templates.ts). */
+/** Subject of the invitation e-mail (packages/messages/src/account.ts). */
 export function invitationSubject(organisationName: string): RegExp {
   return new RegExp(`^You are invited to join ${escapeRegExp(organisationName)} on Evalon$`);
 }

@@ -7,27 +7,16 @@
  * every file git tracks (text only) and fails with the file and line of any retired name; the
  * list lives in retired-names.cjs, which the screenshot script uses too.
  */
-import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { findRetiredName, retiredNames } from './retired-names.cjs';
-
-const root = path.resolve(__dirname, '../..');
+import { repoRoot as root, trackedFiles as allTrackedFiles } from './tracked-files';
 
 /** Binary files and the lock file (package names only) are not read. */
 const skipped = [/\.(png|jpe?g|gif|ico|pdf|woff2?|ttf|otf)$/i, /(^|\/)package-lock\.json$/];
 
 function trackedFiles(): string[] {
-  const out = execFileSync(
-    'git',
-    ['ls-files', '-z', '--cached', '--others', '--exclude-standard'],
-    {
-      cwd: root,
-      encoding: 'utf8',
-      maxBuffer: 64 * 1024 * 1024,
-    },
-  );
-  return out.split('\0').filter((f) => f && !skipped.some((re) => re.test(f)));
+  return allTrackedFiles().filter((f) => !skipped.some((re) => re.test(f)));
 }
 
 describe('retired demo names', () => {

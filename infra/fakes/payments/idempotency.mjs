@@ -5,7 +5,7 @@
 import crypto from 'node:crypto';
 import { ApiError, invalidParam } from './errors.mjs';
 
-/** Longest key the provider accepts (reference-values.md). */
+/** Longest key the provider accepts (docs/references.md). */
 export const MAX_KEY_LENGTH = 255;
 
 /** JSON with keys sorted at every level, so the same parameters always compare equal. */

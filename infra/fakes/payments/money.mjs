@@ -5,7 +5,7 @@ import currencyCodes from 'currency-codes';
 
 /**
  * Minimum charge per currency, in minor units. Only the currencies listed in
- * /work/shared/reference-values.md (a secondary copy of the provider's table) are enforced;
+ * docs/references.md (a secondary copy of the provider's table) are enforced;
  * other currencies have no minimum here.
  */
 export const MINIMUM_CHARGE = Object.freeze({ usd: 50, eur: 50, gbp: 30, jpy: 50 });

@@ -309,7 +309,7 @@ describe('PaymentIntents', () => {
   });
 
   it.each([
-    // Minimum charge amounts: reference-values.md, "Money and payments" (secondary copy of the
+    // Minimum charge amounts: docs/references.md, "Money and payments" (secondary copy of the
     // provider's table): USD 0.50, GBP 0.30, JPY 50.
     ['usd', 49, 50],
     ['gbp', 29, 30],
@@ -351,7 +351,7 @@ describe('Refunds', () => {
     const over = await rejection(sdk.refunds.create({ payment_intent: pi.id, amount: 8000 }));
     expect(over.type).toBe('StripeInvalidRequestError');
     expect(over.rawType).toBe('invalid_request_error');
-    // Amounts are minor units: 1000 = 10.00 USD (reference-values.md), so 8000 → $80.00 and the
+    // Amounts are minor units: 1000 = 10.00 USD (docs/references.md), so 8000 → $80.00 and the
     // 7500 left → $75.00 (derived).
     expect(over.message).toContain('$80.00');
     expect(over.message).toContain('$75.00');
@@ -437,7 +437,7 @@ describe('Checkout Sessions and the hosted page', () => {
     expect(res.status).toBe(200);
     const html = await res.text();
     expect(html).toContain('<title>Evalon test payment (local stand-in)</title>');
-    // 150000 minor units of USD = 1,500.00 (reference-values.md: 1000 = 10.00 USD; derived).
+    // 150000 minor units of USD = 1,500.00 (docs/references.md: 1000 = 10.00 USD; derived).
     expect(html).toContain('$1,500.00');
     expect(html).toContain('Refundable evaluation deposit');
     expect(html).toContain('Test card that succeeds');
@@ -459,7 +459,7 @@ describe('Checkout Sessions and the hosted page', () => {
       success_url: 'http://127.0.0.1:9/ok',
     });
     const html = await (await fetch(String(session.url))).text();
-    // JPY has ISO 4217 exponent 0, so 5000 minor units = ¥5,000 (reference-values.md: 10 = 10 JPY).
+    // JPY has ISO 4217 exponent 0, so 5000 minor units = ¥5,000 (docs/references.md: 10 = 10 JPY).
     expect(html).toContain('¥5,000');
     expect(html).not.toContain('¥5,000.00');
     expect(html).not.toContain('¥50.00');
@@ -587,7 +587,7 @@ describe('idempotency', () => {
   });
 
   it('accepts keys up to 255 characters and refuses longer ones', async () => {
-    // Idempotency keys up to 255 characters (reference-values.md, provider docs).
+    // Idempotency keys up to 255 characters (docs/references.md, provider docs).
     const ok = await sdk.paymentIntents.create(
       { amount: 100, currency: 'usd' },
       { idempotencyKey: 'k'.repeat(255) },
@@ -603,7 +603,7 @@ describe('idempotency', () => {
   });
 
   it('keeps a key 24 hours of the fake clock, then forgets it', async () => {
-    // Keys are kept at least 24 h (reference-values.md); this fake forgets them at exactly 24 h.
+    // Keys are kept at least 24 h (docs/references.md); this fake forgets them at exactly 24 h.
     await sdk.paymentIntents.create({ amount: 100, currency: 'usd' }, { idempotencyKey: 'k-day' });
     await control(fake, '/clock', { advanceSeconds: 24 * 3600 - 1 });
     const still = await rejection(
@@ -622,7 +622,7 @@ describe('idempotency', () => {
 describe('authorisation holds expire', () => {
   it('cancels an uncaptured hold after 7 days with reason automatic', async () => {
     // Online card authorisations stay valid 7 days; an expired hold becomes `canceled`
-    // (reference-values.md, "Money and payments", provider docs).
+    // (docs/references.md, "Money and payments", provider docs).
     const pi = await sdk.paymentIntents.create({
       amount: 50000,
       currency: 'usd',

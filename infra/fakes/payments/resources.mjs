@@ -14,7 +14,7 @@ import {
 } from './params.mjs';
 import { newId, publicView } from './store.mjs';
 
-/** Online card authorisations stay valid 7 days (reference-values.md, provider docs). */
+/** Online card authorisations stay valid 7 days (docs/references.md, provider docs). */
 export const HOLD_VALID_SECONDS = 7 * 24 * 60 * 60;
 /** Checkout Sessions last 24 h unless `expires_at` says otherwise (30 min to 24 h; SDK docs). */
 const SESSION_DEFAULT_SECONDS = 24 * 60 * 60;

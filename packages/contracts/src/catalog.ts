@@ -1,5 +1,19 @@
 import { z } from 'zod';
-import { modelCategories, modelSortFields, unitSortFields } from './values/catalog';
+import {
+  countryPattern,
+  depotLimits,
+  isValidGtin,
+  maintenanceReasonLimits,
+  modelCategories,
+  modelLimits,
+  modelSortFields,
+  photoContentTypes,
+  shippingLimits,
+  unitLimits,
+  unitSortFields,
+  unitStatuses,
+  wallTimePattern,
+} from './values/catalog';
 import { id, isoDate, listOf } from './common';
 import { timeZone } from './identity';
 import { pageOf, pageQuery } from './paging';
@@ -11,34 +25,6 @@ export const modelCategory = z.enum(modelCategories);
 // ---------------------------------------------------------------------------------------------
 // GS1 identification keys
 // ---------------------------------------------------------------------------------------------
-
-/**
- * The GS1 check digit of a string of data digits (GS1 General Specifications §7.9.1): weights
- * 3, 1, 3, 1 ... from the rightmost data digit; check = (10 − sum mod 10) mod 10.
- * @param data The digits before the check digit (e.g. 13 digits of a GTIN-14).
- * @throws RangeError when `data` is empty or holds anything but digits.
- */
-export function gs1CheckDigit(data: string): number {
-  if (!/^\d+$/.test(data)) throw new RangeError(`GS1 data must be digits, got "${data}"`);
-  let sum = 0;
-  for (let i = 0; i < data.length; i++) {
-    const digit = data.charCodeAt(data.length - 1 - i) - 48;
-    sum += digit * (i % 2 === 0 ? 3 : 1);
-  }
-  return (10 - (sum % 10)) % 10;
-}
-
-/** Whether `code` is a GTIN-8, -12, -13 or -14 whose last digit is the right GS1 check digit. */
-export function isValidGtin(code: string): boolean {
-  if (!/^(\d{8}|\d{12}|\d{13}|\d{14})$/.test(code)) return false;
-  return gs1CheckDigit(code.slice(0, -1)) === Number(code.slice(-1));
-}
-
-/** Appends the GS1 check digit to 13 data digits, giving a GTIN-14. */
-export function toGtin14(data13: string): string {
-  if (!/^\d{13}$/.test(data13)) throw new RangeError('A GTIN-14 has 13 data digits.');
-  return `${data13}${gs1CheckDigit(data13)}`;
-}
 
 /** A GTIN written as 14 digits with a valid check digit (shorter GTINs padded with zeros). */
 export const gtin14 = z
@@ -62,7 +48,7 @@ export type Money = z.infer<typeof money>;
 /** A model's deposit rule: basis points of list value, clamped to [min, max]. */
 export const depositRule = z
   .object({
-    percentBps: z.number().int().min(0).max(10_000),
+    percentBps: z.number().int().min(0).max(modelLimits.percentBpsMax),
     min: minor,
     max: minor,
     currency,
@@ -78,28 +64,34 @@ export type DepositRule = z.infer<typeof depositRule>;
 // ---------------------------------------------------------------------------------------------
 
 /** A wall-clock time `HH:mm`, 24-hour. */
-export const wallTime = z
-  .string()
-  .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time HH:mm, e.g. 15:00.');
+export const wallTime = z.string().regex(wallTimePattern, 'Use a 24-hour time HH:mm, e.g. 15:00.');
 
 /** `POST /api/lenders/:orgId/depots` and `PUT /api/lenders/:orgId/depots/:siteId`. */
 export const depotInput = z
   .object({
-    name: z.string().trim().min(2, 'Give the depot a name.').max(200),
-    addressLine: z.string().trim().min(3, 'Enter the street address.').max(300),
-    city: z.string().trim().min(1, 'Enter the city.').max(120),
-    postalCode: z.string().trim().max(20).nullable().default(null),
-    region: z.string().trim().max(120).nullable().default(null),
+    name: z
+      .string()
+      .trim()
+      .min(depotLimits.nameMin, 'Give the depot a name.')
+      .max(depotLimits.nameMax),
+    addressLine: z
+      .string()
+      .trim()
+      .min(depotLimits.addressMin, 'Enter the street address.')
+      .max(depotLimits.addressMax),
+    city: z.string().trim().min(1, 'Enter the city.').max(depotLimits.cityMax),
+    postalCode: z.string().trim().max(depotLimits.postalCodeMax).nullable().default(null),
+    region: z.string().trim().max(depotLimits.regionMax).nullable().default(null),
     /** ISO 3166-1 alpha-2; also picks the public-holiday calendar for shipping days. */
     country: z
       .string()
       .trim()
       .toUpperCase()
-      .regex(/^[A-Z]{2}$/, 'Use a two-letter country code, e.g. US or DE.'),
+      .regex(countryPattern, 'Use a two-letter country code, e.g. US or DE.'),
     latitude: z.number().min(-90).max(90),
     longitude: z.number().min(-180).max(180),
     timeZone,
-    receivingHours: z.string().trim().max(200).nullable().default(null),
+    receivingHours: z.string().trim().max(depotLimits.receivingHoursMax).nullable().default(null),
     /** Last hand-over to the carrier on a ship date, in the depot's time zone. */
     cutoffTime: wallTime,
   })
@@ -139,28 +131,35 @@ export const depotParams = z.object({ orgId: id, siteId: id });
  */
 export const distanceBand = z.object({
   maxKm: z.number().positive('A band ends after 0 km.').nullable(),
-  days: z.number().int().min(0).max(30),
+  days: z.number().int().min(0).max(shippingLimits.daysMax),
 });
 export type DistanceBandInput = z.infer<typeof distanceBand>;
 
 /** A lender's shipping settings (defaults are assumptions; each lender edits its own). */
 export const shippingSettings = z
   .object({
-    distanceBands: z.array(distanceBand).min(1, 'Keep at least one distance band.').max(20),
+    distanceBands: z
+      .array(distanceBand)
+      .min(shippingLimits.bandsMin, 'Keep at least one distance band.')
+      .max(shippingLimits.bandsMax),
     /** Customs days added to each leg that crosses a border. */
-    customsDays: z.number().int().min(0).max(30),
+    customsDays: z.number().int().min(0).max(shippingLimits.daysMax),
     /** Hospital business days between delivery and the first case (delivery day counted). */
-    leadDays: z.number().int().min(1, 'A unit cannot arrive on the day of the case.').max(30),
+    leadDays: z
+      .number()
+      .int()
+      .min(shippingLimits.leadDaysMin, 'A unit cannot arrive on the day of the case.')
+      .max(shippingLimits.daysMax),
     /** Lead days for a hospital's first loan of a model. */
     firstLoanLeadDays: z
       .number()
       .int()
-      .min(1, 'A unit cannot arrive on the day of the case.')
-      .max(30),
+      .min(shippingLimits.leadDaysMin, 'A unit cannot arrive on the day of the case.')
+      .max(shippingLimits.daysMax),
     /** Hospital business days after the last case before the return ships. */
-    decontaminationDays: z.number().int().min(0).max(30),
+    decontaminationDays: z.number().int().min(0).max(shippingLimits.daysMax),
     /** Depot business days after arrival for inspection and reprocessing. */
-    turnaroundDays: z.number().int().min(0).max(30),
+    turnaroundDays: z.number().int().min(0).max(shippingLimits.daysMax),
   })
   .superRefine((s, ctx) => {
     let previous = 0;
@@ -212,9 +211,9 @@ export type ShippingSettingsResponse = z.infer<typeof shippingSettingsResponse>;
 
 export const packingItem = z.object({
   id: z.number().int().optional(),
-  name: z.string().trim().min(1).max(160),
+  name: z.string().trim().min(1).max(modelLimits.packingNameMax),
   gtin: gtin14.nullable(),
-  quantity: z.number().int().min(1).max(999),
+  quantity: z.number().int().min(modelLimits.quantityMin).max(modelLimits.quantityMax),
   /** Whether each piece carries its own serial number that must be scanned. */
   serialised: z.boolean().default(false),
 });
@@ -228,15 +227,22 @@ export const modelInput = z
      * exactly one lender; ignored on update (a model never changes lender).
      */
     lenderId: z.number().int().positive().optional(),
-    name: z.string().trim().min(2, 'Give the model a name.').max(160),
+    name: z
+      .string()
+      .trim()
+      .min(modelLimits.nameMin, 'Give the model a name.')
+      .max(modelLimits.nameMax),
     category: modelCategory,
-    description: z.string().trim().max(4000).default(''),
+    description: z.string().trim().max(modelLimits.descriptionMax).default(''),
     listValue: minor,
     currency,
     depositRule: depositRule,
-    packingList: z.array(packingItem).max(200).default([]),
+    packingList: z.array(packingItem).max(modelLimits.packingItemsMax).default([]),
     /** Other models of the same lender this one is compatible with; kept symmetric by the server. */
-    compatibleModelIds: z.array(z.number().int().positive()).max(100).default([]),
+    compatibleModelIds: z
+      .array(z.number().int().positive())
+      .max(modelLimits.compatibleMax)
+      .default([]),
   })
   .refine((m) => m.depositRule.currency === m.currency, {
     message: 'The deposit rule must use the currency of the list value.',
@@ -254,7 +260,7 @@ export const photo = z
   .object({
     id: z.number().int(),
     modelId: z.number().int(),
-    contentType: z.enum(['image/jpeg', 'image/png', 'image/webp']),
+    contentType: z.enum(photoContentTypes),
     sizeBytes: z.number().int(),
     url: z.string(),
   })
@@ -324,7 +330,6 @@ export const modelPhotoParams = z.object({ id, photoId: id });
 // Units and holds
 // ---------------------------------------------------------------------------------------------
 
-export const unitStatuses = ['active', 'maintenance', 'retired'] as const;
 export const unitStatus = z.enum(unitStatuses);
 export type UnitStatus = z.infer<typeof unitStatus>;
 
@@ -332,7 +337,7 @@ export type UnitStatus = z.infer<typeof unitStatus>;
 export const unitInput = z
   .object({
     modelId: z.number().int().positive(),
-    serialNumber: z.string().trim().min(1, 'Enter the serial number.').max(60),
+    serialNumber: z.string().trim().min(1, 'Enter the serial number.').max(unitLimits.serialMax),
     /** UDI device identifier: the GTIN on the unit's label, 14 digits. */
     udiDi: z
       .string()
@@ -414,7 +419,11 @@ export const holdList = listOf(hold).meta({ id: 'HoldList' });
 export const holdResponse = z.object({ hold }).meta({ id: 'HoldResponse' });
 
 export const maintenanceHoldInput = z
-  .object({ start: isoDate, end: isoDate, reason: z.string().trim().min(2).max(300) })
+  .object({
+    start: isoDate,
+    end: isoDate,
+    reason: z.string().trim().min(maintenanceReasonLimits.min).max(maintenanceReasonLimits.max),
+  })
   .refine((h) => h.end >= h.start, { message: 'The end is before the start.', path: ['end'] })
   .meta({ id: 'MaintenanceHoldInput' });
 export type MaintenanceHoldInput = z.infer<typeof maintenanceHoldInput>;

@@ -171,7 +171,7 @@ describe('depositForLoan', () => {
     expect(depositForLoan(units, { purchaseOrderNumber: 'PO-4471' }).waived).toBe(false);
   });
 
-  // Provider minimums: reference-values.md "Money and payments" (secondary copy of the provider's
+  // Provider minimums: docs/references.md "Money and payments" (secondary copy of the provider's
   // table): USD 0.50, JPY 50.
   it('raises a deposit below the provider minimum to that minimum', () => {
     const tiny = depositForLoan([{ unitId: 'u-1', listValue: 1000, rule: open(100) }]);

@@ -5,7 +5,7 @@ import { assertInteger, currencyExponent, formatMoney, toMinor } from './money';
 import { PROVIDER_MINIMUM_CHARGE, providerMinimumCharge } from './provider-minimums';
 
 describe('currencyExponent (ISO 4217 through currency-codes)', () => {
-  // Source: payment provider's public documentation, reference-values.md "Money and payments":
+  // Source: payment provider's public documentation, docs/references.md "Money and payments":
   // zero-decimal currencies include JPY, KRW, VND, CLP (ISO 4217 exponent 0).
   it.each(['JPY', 'KRW', 'VND', 'CLP'])('%s has exponent 0 (zero-decimal)', (code) => {
     expect(currencyExponent(code)).toBe(0);
@@ -35,7 +35,7 @@ describe('currencyExponent (ISO 4217 through currency-codes)', () => {
 });
 
 describe('toMinor', () => {
-  // Source: payment provider's documentation (reference-values.md): 1000 = 10.00 USD; 10 = 10 JPY.
+  // Source: payment provider's documentation (docs/references.md): 1000 = 10.00 USD; 10 = 10 JPY.
   it('reads 10.00 USD as 1000 minor units', () => {
     expect(toMinor('10.00', 'USD')).toBe(1000);
     expect(toMinor('10', 'USD')).toBe(1000);
@@ -125,7 +125,7 @@ describe('assertInteger', () => {
 });
 
 describe('providerMinimumCharge', () => {
-  // Source: payment provider's minimum charge table, secondary copy in reference-values.md
+  // Source: payment provider's minimum charge table, secondary copy in docs/references.md
   // ("Money and payments"): USD 0.50, EUR 0.50, GBP 0.30, JPY 50. The expected minor units are
   // derived from those major amounts through toMinor, not typed in.
   it.each([

@@ -4,7 +4,7 @@ import { currencyExponent } from './money';
  * Smallest amount the payment provider will charge, per currency, in minor units.
  *
  * Source: the payment provider's public documentation ("minimum charge amount" table), as copied
- * into /work/shared/reference-values.md ("Money and payments"): USD 0.50, EUR 0.50, GBP 0.30,
+ * into docs/references.md ("Money and payments"): USD 0.50, EUR 0.50, GBP 0.30,
  * JPY 50. This is a SECONDARY copy of the provider's table, not the table itself, and it holds only
  * the currencies we have checked; the provider may change its table, so re-check it before adding a
  * currency or relying on a value in production.

@@ -7,7 +7,7 @@ const now = new Date('2027-03-01T12:00:00Z');
 const after = (ms: number) => new Date(now.getTime() + ms);
 
 describe('CARD_AUTHORISATION_WINDOW_MS', () => {
-  // Source: payment provider's documentation, reference-values.md "Money and payments": online card
+  // Source: payment provider's documentation, docs/references.md "Money and payments": online card
   // authorisations stay valid 7 days.
   it('is 7 days', () => {
     expect(CARD_AUTHORISATION_WINDOW_MS / DAY).toBe(7);
@@ -15,7 +15,7 @@ describe('CARD_AUTHORISATION_WINDOW_MS', () => {
 });
 
 describe('chooseStrategy', () => {
-  // Source: 7-day authorisation window (reference-values.md "Money and payments").
+  // Source: 7-day authorisation window (docs/references.md "Money and payments").
   it('holds the card for a 6-day footprint starting now', () => {
     expect(chooseStrategy({ footprintStart: now, footprintEnd: after(6 * DAY), now })).toBe(
       'authorise_hold',
@@ -45,7 +45,7 @@ describe('chooseStrategy', () => {
     ).toBe('charge_now_refund_later');
   });
 
-  // Source: reference-values.md: merchant-initiated on one network, 4 days 18 h.
+  // Source: docs/references.md: merchant-initiated on one network, 4 days 18 h.
   it('takes a shorter window when given one', () => {
     const windowMs = 4 * DAY + 18 * 60 * 60 * 1000;
     const input = { footprintStart: now, footprintEnd: after(5 * DAY), now };

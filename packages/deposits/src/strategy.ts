@@ -4,7 +4,7 @@ const DAY_MS = 24 * 60 * 60 * 1000;
 
 /**
  * How long a card authorisation for an online card payment stays valid: 7 days, per the payment
- * provider's public documentation (as copied into /work/shared/reference-values.md, "Money and
+ * provider's public documentation (as copied into docs/references.md, "Money and
  * payments"; an expired hold becomes `canceled`). Some networks allow less for some transactions
  * (merchant-initiated on one network: 4 days 18 h); pass a shorter `windowMs` for those.
  */

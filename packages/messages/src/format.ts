@@ -118,10 +118,21 @@ export function formatInstant(
 
 /**
  * Formats a calendar date in a locale without moving it across zones:
- * `2027-03-15` → `Monday, March 15, 2027` (en-US).
+ * `2027-03-15` → `Monday, March 15, 2027` (en-US, `long`, for e-mail bodies) or
+ * `Mon, Mar 15, 2027` (`medium`, the web app's day format, for short texts such as in-app notices).
  */
-export function formatCalendarDate(date: string, locale: string): string {
+export function formatCalendarDate(
+  date: string,
+  locale: string,
+  style: 'long' | 'medium' = 'long',
+): string {
+  const long = style === 'long';
   return toCalendarDate(date)
     .setLocale(locale)
-    .toLocaleString({ weekday: 'long', year: 'numeric', month: 'long', day: 'numeric' });
+    .toLocaleString({
+      weekday: long ? 'long' : 'short',
+      year: 'numeric',
+      month: long ? 'long' : 'short',
+      day: 'numeric',
+    });
 }

@@ -4,7 +4,7 @@ import { ATTENDEES, MILESTONES, ORGANIZER, SITE_ADDRESS, makeLoan } from './__fi
 import { buildLoanInvite, type LoanInviteInput, loanEventUids, nextSequence } from './ics';
 
 // The outside check: every invite is read back with ical.js, a general-purpose iCalendar parser
-// that this project did not write. Requirements are quoted from reference-values.md
+// that this project did not write. Requirements are quoted from docs/references.md
 // ("Time, calendars, holidays"); where a check rests on an RFC clause not listed there, the
 // clause is named and marked "from memory".
 
@@ -46,7 +46,7 @@ describe('buildLoanInvite: RFC 5545 / RFC 5546 requirements, read back with ical
   const ics = buildLoanInvite(input({ sequence: 3 }));
   const calendar = parse(ics);
 
-  it('is a VCALENDAR with PRODID and VERSION:2.0 (RFC 5545 §3.6 calprops; listed under §3.6.1 in reference-values.md)', () => {
+  it('is a VCALENDAR with PRODID and VERSION:2.0 (RFC 5545 §3.6 calprops; listed under §3.6.1 in docs/references.md)', () => {
     expect(calendar.name).toBe('vcalendar');
     expect(calendar.getAllProperties('prodid')).toHaveLength(1);
     expect(calendar.getFirstPropertyValue('prodid')).toContain('Evalon');

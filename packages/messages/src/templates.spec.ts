@@ -43,7 +43,7 @@ const INVITE: LoanInviteDetails = {
   now: '2027-02-10T12:00:00Z',
 };
 
-/** The cautions' short form, as the brief words it (product.md, "Cautions the product shows"). */
+/** The cautions' short form, as the brief words it (docs/design/product.md, "Cautions the product shows"). */
 const CAUTIONS =
   'Evalon schedules and documents; it does not certify. Computed dates and deposits are estimates until the lender confirms; local rules, contracts and licensed practice prevail.';
 
@@ -110,7 +110,7 @@ function factValue(doc: Document, label: string): string | undefined {
 }
 
 describe('instants are shown in the recipient’s zone', () => {
-  // Reference values (reference-values.md, derived from 15 U.S.C. 260a, EU Directive 2000/84/EC
+  // Reference values (docs/references.md, derived from 15 U.S.C. 260a, EU Directive 2000/84/EC
   // and the IANA tz database): New York moves to EDT (UTC−4) at 2027-03-14 07:00Z; Berlin stays
   // on CET (UTC+1) until 2027-03-28. So 2027-03-14 15:00Z is 11:00 EDT and 16:00 CET.
   const data = { loan: makeLoan(), publicUrl: PUBLIC_URL, depositDueBy: '2027-03-14T15:00:00Z' };

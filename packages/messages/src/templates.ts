@@ -224,7 +224,7 @@ export function loanRequested(data: LoanMessageData, recipient: Recipient): Loan
   ];
   return finish({
     subject: `New loan request ${loan.reference} from ${loan.hospitalName}`,
-    preheader: `${loan.hospitalName} asks for ${loan.units.length} unit(s), first case day ${loan.milestones.useFrom}.`,
+    preheader: `${loan.hospitalName} asks for ${loan.units.length} unit(s), first case day ${formatCalendarDate(loan.milestones.useFrom, ctx.to.locale)}.`,
     heading: 'New loan request',
     recipientName: ctx.to.name,
     blocks,

@@ -2,7 +2,7 @@ import ICAL from 'ical.js';
 
 import { buildVTimezone, formatUtcOffset } from './vtimezone';
 
-// Transition instants are the reference values of reference-values.md ("DST 2027", derived from
+// Transition instants are the reference values of docs/references.md ("Daylight saving time 2027", derived from
 // 15 U.S.C. 260a and EU Directive 2000/84/EC, IANA tz). The VTIMEZONE text is read back with
 // ical.js, a general-purpose parser.
 

@@ -4,7 +4,7 @@ import { assertHttpUrl } from './escape';
 
 /**
  * The cautions in their short form, shown in every message footer and invite description
- * (product.md, "Cautions the product shows").
+ * (docs/design/product.md, "Cautions the product shows").
  */
 export const CAUTIONS_SHORT =
   'Evalon schedules and documents; it does not certify. Computed dates and deposits are ' +

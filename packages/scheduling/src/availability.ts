@@ -130,7 +130,7 @@ export interface AllFeasibleResult<H extends DateInterval = DateInterval> {
 }
 
 /**
- * Checks all units of one loan (product.md §2: loans of several units are all-or-nothing): the
+ * Checks all units of one loan (docs/design/product.md §2: loans of several units are all-or-nothing): the
  * loan is feasible only when every unit's footprint fits that unit's holds. Every unit is
  * checked, so the caller can show which ones block.
  */

@@ -23,7 +23,7 @@ import {
   oracleIsBusinessDay,
 } from './test-support';
 
-// 5 U.S.C. 6103, observed dates for 2027 (reference-values.md): Jun 19, Jul 4 and Dec 25 fall on
+// 5 U.S.C. 6103, observed dates for 2027 (docs/references.md): Jun 19, Jul 4 and Dec 25 fall on
 // a weekend and are observed on the nearest weekday; 2028-01-01 (Saturday) is observed on
 // 2027-12-31.
 const US_FEDERAL_OBSERVED_2027 = [
@@ -41,7 +41,7 @@ const US_FEDERAL_OBSERVED_2027 = [
   '2027-12-31',
 ];
 
-// Germany, nationwide public holidays 2027 (reference-values.md): Good Friday Mar 26, Easter
+// Germany, nationwide public holidays 2027 (docs/references.md): Good Friday Mar 26, Easter
 // Monday Mar 29, Ascension May 6, Whit Monday May 17, and holidays on weekends are not moved.
 const DE_NATIONWIDE_2027 = [
   '2027-01-01',
@@ -108,7 +108,7 @@ describe('business-day calendar', () => {
     });
 
     it('does not move weekend holidays to a weekday', () => {
-      // reference-values.md: Germany does not move holidays that fall on a weekend.
+      // docs/references.md: Germany does not move holidays that fall on a weekend.
       expect(isoWeekday('2027-10-03')).toBe(7); // German Unity Day on a Sunday
       expect(isBusinessDay('2027-10-04', 'DE')).toBe(true);
       expect(isBusinessDay('2027-05-03', 'DE')).toBe(true); // after May 1 (Saturday)

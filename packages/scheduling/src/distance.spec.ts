@@ -34,7 +34,7 @@ describe('great-circle distance', () => {
   });
 
   it('gives 3,972.86 km for LAX–JFK on the IUGG mean-radius sphere', () => {
-    // reference-values.md (derived): 0.623585 rad × 6,371.0088 km = 3,972.86 km. Tolerance
+    // docs/references.md (derived): 0.623585 rad × 6,371.0088 km = 3,972.86 km. Tolerance
     // 0.01 km: the rounding of the printed angle (±5e-7 rad) alone is ±0.003 km.
     expect(IUGG_MEAN_EARTH_RADIUS_M).toBe(6_371_008.8);
     expect(Math.abs(greatCircleDistanceKm(LAX, JFK) - 3972.86)).toBeLessThan(0.01);

@@ -190,7 +190,7 @@ function validateInput(input: FootprintInput): void {
 }
 
 /**
- * Computes a loan's footprint from the hospital's use window (product.md §1). Pure: the same
+ * Computes a loan's footprint from the hospital's use window (docs/design/product.md §1). Pure: the same
  * input always gives the same output; the clock is read only from `input.now`.
  *
  * Choices, step by step:

@@ -92,5 +92,5 @@ export {
   windowLengthDays,
 } from './availability';
 
-/** Shipment ETA, overdue shipments and return reminders (product.md §5). */
+/** Shipment ETA, overdue shipments and return reminders (docs/design/product.md §5). */
 export { isOverdue, returnReminderDue, shipmentEta } from './shipments';

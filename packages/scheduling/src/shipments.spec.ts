@@ -2,7 +2,7 @@ import { isOverdue, returnReminderDue, shipmentEta } from './shipments';
 
 describe('shipmentEta', () => {
   it('counts origin business days after the ship date (hand-derived)', () => {
-    // Germany 2027 (reference-values.md): Good Friday Mar 26, Easter Monday Mar 29.
+    // Germany 2027 (docs/references.md): Good Friday Mar 26, Easter Monday Mar 29.
     // Thu Mar 25 + 1 German business day → Tue Mar 30; + 3 → Thu Apr 1.
     expect(shipmentEta('2027-03-25', 1, 'DE')).toBe('2027-03-30');
     expect(shipmentEta('2027-03-25', 3, 'DE')).toBe('2027-04-01');

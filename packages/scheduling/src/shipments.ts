@@ -8,7 +8,7 @@ import {
 } from './business-days';
 
 /**
- * Expected delivery date of a shipment (product.md §5): `transitDays` business days of the
+ * Expected delivery date of a shipment (docs/design/product.md §5): `transitDays` business days of the
  * ORIGIN country after the ship date (the ship date itself is not counted; carriers move goods on
  * the origin's working days). When `destinationCountry` is given, an arrival on a destination
  * weekend or public holiday moves to the next destination business day, since the receiving
@@ -32,7 +32,7 @@ export function shipmentEta(
 }
 
 /**
- * Whether a shipment is overdue, i.e. not delivered by its expected date (product.md §5).
+ * Whether a shipment is overdue, i.e. not delivered by its expected date (docs/design/product.md §5).
  * While it is undelivered it is overdue once `today` is after `expected`; once delivered it
  * counts as overdue when it was delivered after `expected` (a late delivery stays on record).
  * All three are calendar dates in the receiving site's zone.

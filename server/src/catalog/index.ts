@@ -13,14 +13,9 @@ import {
 } from './data-access/entities';
 import type { CatalogDeps } from './domain/deps';
 
-export {
-  findSiteWithOrganisation,
-  insertModel,
-  insertUnit,
-  lockUnits,
-  replacePackingList,
-  type SiteWithOrganisation,
-} from './data-access/catalog-repository';
+export { findSiteWithOrganisation, type SiteWithOrganisation } from '../organisations';
+export { insertModel, replacePackingList } from './data-access/model-repository';
+export { insertUnit, lockUnits } from './data-access/unit-repository';
 export {
   deleteLoanHolds,
   findHoldsForUnits,
@@ -28,7 +23,7 @@ export {
   type HoldInterval,
   type NewHold,
 } from './data-access/hold-repository';
-export { bumpBookingVersion } from './data-access/catalog-repository';
+export { bumpBookingVersion } from './data-access/unit-repository';
 export type { CatalogDeps } from './domain/deps';
 export { unitDeposit } from './domain/models';
 export { LocalPhotoStore, type PhotoStore } from './domain/photo-store';

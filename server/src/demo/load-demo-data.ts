@@ -110,6 +110,16 @@ export async function loadDemoData(
           now,
         );
         if (person.state === 'active') inviterId ??= userId;
+        // What happened to this membership, as the audit trail records it for a real one.
+        const audit = (action: string, detail: Record<string, unknown>) =>
+          insertAuditEvent(m, {
+            at: now,
+            actorUserId: inviterId,
+            organisationId,
+            action,
+            subject: `membership:${membershipId}`,
+            detail,
+          });
         if (person.state === 'pending') {
           // Nobody knows this token; a manager can send a fresh link from the members page.
           const { tokenHash } = newOneTimeToken();
@@ -125,26 +135,17 @@ export async function loadDemoData(
             },
             now,
           );
-          await insertAuditEvent(m, {
-            at: now,
-            actorUserId: inviterId,
-            organisationId,
-            action: 'member.invited',
-            subject: `membership:${membershipId}`,
-            detail: { email: person.email, role: person.role, userId, newAccount: true },
+          await audit('member.invited', {
+            email: person.email,
+            role: person.role,
+            userId,
+            newAccount: true,
           });
         }
         if (person.state === 'deactivated') {
           const lastSeen = new Date(now.getTime() - 40 * 24 * 3_600_000);
           await updateUser(m, userId, { lastSignInAt: lastSeen }, now);
-          await insertAuditEvent(m, {
-            at: now,
-            actorUserId: inviterId,
-            organisationId,
-            action: 'member.deactivated',
-            subject: `membership:${membershipId}`,
-            detail: { userId, sessionsEnded: 0 },
-          });
+          await audit('member.deactivated', { userId, sessionsEnded: 0 });
         }
       }
     }

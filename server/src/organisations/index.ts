@@ -10,6 +10,15 @@ export {
   insertSite,
 } from './data-access/organisation-repository';
 export { SiteEntity } from './data-access/entities';
+export {
+  findDepot,
+  findOrganisationKind,
+  findSiteWithOrganisation,
+  insertDepot,
+  listDepots,
+  updateDepot,
+  type SiteWithOrganisation,
+} from './data-access/depot-repository';
 
 /** Organisations and their sites (tables created by the identity migration). */
 export const organisationsComponent: AppComponent = {

@@ -1,7 +1,8 @@
 import type { DataSource } from 'typeorm';
 import { toGtin14, type ModelCategory } from '@evalon/contracts';
 import { addCalendarDays, isoWeekday } from '@evalon/scheduling';
-import { insertModel, insertUnit } from '../../src/catalog/data-access/catalog-repository';
+import { insertModel } from '../../src/catalog/data-access/model-repository';
+import { insertUnit } from '../../src/catalog/data-access/unit-repository';
 import { insertSite } from '../../src/organisations/data-access/organisation-repository';
 import { makeOrganisation, makePerson, unique, type TestPerson } from './factories';
 

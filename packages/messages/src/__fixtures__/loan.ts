@@ -3,7 +3,7 @@ import type { Loan, Milestones } from '@evalon/contracts';
 /**
  * An invented loan for the tests (demo-data style: made-up organisations, people and models,
  * `.example` addresses). The hospital site is in New York so that its dates sit next to the US
- * daylight-saving change of 2027-03-14 (reference-values.md).
+ * daylight-saving change of 2027-03-14 (docs/references.md).
  */
 export const MILESTONES: Milestones = {
   shipBy: '2027-03-08',

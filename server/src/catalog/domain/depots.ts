@@ -13,9 +13,9 @@ import {
   findOrganisationKind,
   insertDepot,
   listDepots,
-  saveLenderSettings,
   updateDepot,
-} from '../data-access/catalog-repository';
+} from '../../organisations';
+import { saveLenderSettings } from '../data-access/lender-settings-repository';
 import type { CatalogDeps } from './deps';
 import { loadLenderSettings } from './shipping-settings';
 

@@ -6,7 +6,6 @@ import type { AuthContext } from '../../identity';
 import {
   findModel,
   findModelsByIds,
-  findOrganisationKind,
   insertModel,
   countModels,
   listModelSummaries,
@@ -16,7 +15,8 @@ import {
   replacePackingList,
   updateModel,
   type ModelSummary,
-} from '../data-access/catalog-repository';
+} from '../data-access/model-repository';
+import { findOrganisationKind } from '../../organisations';
 import type { PhotoRow } from '../data-access/entities';
 import type { CatalogDeps } from './deps';
 import { isFleetManagerOf, organisationsWithRole } from './scope';

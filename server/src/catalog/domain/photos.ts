@@ -1,18 +1,13 @@
 import type { Photo } from '@evalon/contracts';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
-import {
-  countPhotos,
-  deletePhoto,
-  findPhoto,
-  insertPhoto,
-} from '../data-access/catalog-repository';
+import { countPhotos, deletePhoto, findPhoto, insertPhoto } from '../data-access/photo-repository';
 import type { CatalogDeps } from './deps';
 import { modelForChange, toPhoto } from './models';
 import { newPhotoKey, photoExtensions } from './photo-store';
 
-/** Largest photo accepted, in bytes (5 MB). */
-export const maxPhotoBytes = 5 * 1024 * 1024;
+/** Largest photo the server stores (the contract's value, so the form and the server agree). */
+export { maxPhotoBytes } from '@evalon/contracts';
 /** Most photos one model may have. */
 export const maxPhotosPerModel = 12;
 

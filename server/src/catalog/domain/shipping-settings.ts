@@ -1,7 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import type { ShippingSettings } from '@evalon/contracts';
 import { DEFAULT_SCHEDULING_SETTINGS, type SchedulingSettings } from '@evalon/scheduling';
-import { findLenderSettings } from '../data-access/catalog-repository';
+import { findLenderSettings } from '../data-access/lender-settings-repository';
 
 /**
  * The product defaults as the API shows them: the scheduling package's defaults (lead 2 days,

@@ -15,15 +15,15 @@ import type { AuthContext } from '../../identity';
 import {
   bumpBookingVersion,
   countUnitsByStatus,
-  findDepot,
-  findModel,
   insertUnit,
   listUnits,
   lockUnits,
   serialTaken,
   updateUnit,
   type UnitDetails,
-} from '../data-access/catalog-repository';
+} from '../data-access/unit-repository';
+import { findDepot } from '../../organisations';
+import { findModel } from '../data-access/model-repository';
 import {
   deleteHold,
   findHoldsForUnits,

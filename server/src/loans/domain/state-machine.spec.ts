@@ -9,7 +9,7 @@ import {
   type LoanTransitionAction,
 } from './state-machine';
 
-// The table of product.md ("loan states"): requested → approved | declined by the lender,
+// The table of docs/design/product.md ("loan states"): requested → approved | declined by the lender,
 // requested | approved → cancelled by the hospital; declined and cancelled give up the holds.
 describe('loan state machine', () => {
   it('approves and declines only requested loans', () => {

@@ -6,6 +6,7 @@ import type {
   ReadAllResponse,
   Role,
 } from '@evalon/contracts';
+import { formatCalendarDate } from '@evalon/messages';
 import { AppError } from '../../errors';
 import {
   countUnread,
@@ -21,6 +22,18 @@ import {
 } from '../data-access/notification-repository';
 
 export type { NewNotification, Recipient };
+
+/**
+ * A site calendar day as the web app writes it ("Mon, Mar 15, 2027"), for notice texts: a notice
+ * is stored once for everyone, so it uses the app's locale rather than each reader's.
+ */
+export function noticeDay(isoDate: string): string {
+  try {
+    return formatCalendarDate(isoDate, 'en-US', 'medium');
+  } catch {
+    return isoDate;
+  }
+}
 
 /**
  * Writes an in-app notification for each user with the CALLER's entity manager, i.e. in the

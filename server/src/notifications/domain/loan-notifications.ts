@@ -22,7 +22,7 @@ import {
   type LoanNotificationLoader,
 } from '../data-access/loan-notification-repository';
 import type { Recipient } from '../data-access/notification-repository';
-import { notifyUsers, recipientsFor } from './in-app';
+import { noticeDay, notifyUsers, recipientsFor } from './in-app';
 import { enqueueEmail } from './outbox';
 import { messageIdDomain } from './outbox-worker';
 
@@ -127,7 +127,7 @@ function inApp(
     case 'requested':
       return {
         title: `New loan request ${l.reference}`,
-        body: `${l.hospitalName} asks for ${l.units.length} unit(s) at ${l.siteName}, first case day ${l.useFrom}.`,
+        body: `${l.hospitalName} asks for ${l.units.length} unit(s) at ${l.siteName}, first case day ${noticeDay(l.useFrom)}.`,
       };
     case 'approved':
       return {
@@ -137,7 +137,7 @@ function inApp(
     case 'confirmed':
       return {
         title: `Loan ${l.reference} confirmed`,
-        body: `Arrives at ${l.siteName} by ${l.milestones.deliverBy}; first case day ${l.useFrom} (site calendar days).`,
+        body: `Arrives at ${l.siteName} by ${noticeDay(l.milestones.deliverBy)}; first case day ${noticeDay(l.useFrom)} (site calendar days).`,
       };
     case 'declined':
       return {

@@ -6,7 +6,7 @@ import {
   type ShipmentAlertKind,
 } from '@evalon/messages';
 import type { Config } from '../../config';
-import { notifyUsers, recipientsFor, type Recipient } from './in-app';
+import { noticeDay, notifyUsers, recipientsFor, type Recipient } from './in-app';
 import { enqueueEmail } from './outbox';
 
 /** What the shipments component says happened. */
@@ -54,7 +54,8 @@ const alertTitles: Record<ShipmentAlertKind, string> = {
 };
 
 /** What a leg's deadline is, for the in-app notice: whose calendar day and for what. */
-function deadlineWords(direction: string, kind: ShipmentAlertKind, day: string): string {
+function deadlineWords(direction: string, kind: ShipmentAlertKind, isoDay: string): string {
+  const day = noticeDay(isoDay);
   if (direction === 'outbound') return `deliver by ${day} (campus calendar)`;
   return kind === 'return_at_risk' || kind === 'return_overdue'
     ? `back at the depot by ${day} (depot calendar)`

@@ -23,7 +23,7 @@ import {
   type Person,
   type VisitNotificationData,
 } from '../data-access/visit-notification-repository';
-import { notifyUsers, recipientsFor } from './in-app';
+import { noticeDay, notifyUsers, recipientsFor } from './in-app';
 import { enqueueEmail } from './outbox';
 import { messageIdDomain } from './outbox-worker';
 
@@ -89,7 +89,7 @@ function inAppWords(
     case 'offered':
       return {
         title: `Visit ${v.reference} offered to you`,
-        body: `${v.hospitalName} asks for proctoring on ${v.modelName}, ${v.from} to ${v.to}. Answer before the deadline.`,
+        body: `${v.hospitalName} asks for proctoring on ${v.modelName}, ${noticeDay(v.from)} to ${noticeDay(v.to)}. Answer before the deadline.`,
       };
     case 'declined':
       return {
@@ -112,7 +112,7 @@ function inAppWords(
     case 'accepted':
       return {
         title: `Visit ${v.reference} accepted`,
-        body: `${v.proctorName ?? proctorName} supervises the cases at ${v.siteName}, ${v.from} to ${v.to}.`,
+        body: `${v.proctorName ?? proctorName} supervises the cases at ${v.siteName}, ${noticeDay(v.from)} to ${noticeDay(v.to)}.`,
       };
     case 'cancelled':
       return {
@@ -331,7 +331,7 @@ export function credentialNotifierFromConfig(
       [person.userId],
       {
         kind: 'credential.expiring',
-        title: `${c.title} ends on ${c.validTo}`,
+        title: `${c.title} ends on ${noticeDay(c.validTo)}`,
         body: `Visits in ${c.jurisdiction} after that day are not offered to you. Upload the renewed credential.`,
         link: '/proctor/credentials',
         dedupeKey: `credential:${c.id}:expiring`,

@@ -5,17 +5,21 @@ import {
   findApprovalTime,
   findLoanDeposit,
   findLoanUnitDeposits,
+  type LoanDepositRow,
+} from '../data-access/loan-deposit-repository';
+import {
   findOpenCheckouts,
   findPayment,
   findPaymentsToRelease,
   insertPayment,
-  insertPaymentEvent,
-  insertRefund,
-  setPaymentEventOutcome,
   updatePayment,
-  type LoanDepositRow,
   type PaymentRow,
 } from '../data-access/payment-repository';
+import {
+  insertPaymentEvent,
+  setPaymentEventOutcome,
+} from '../data-access/payment-event-repository';
+import { insertRefund } from '../data-access/refund-repository';
 import { depositDeadline } from './deadline';
 import type { PaymentsDeps } from './deps';
 import {

@@ -4,7 +4,7 @@ const hours = (n: number) => n * 3_600_000;
 
 describe('deposit footprint, strategy and deadline', () => {
   it('reads each day in its depot zone, across a daylight-saving change', () => {
-    // New York moves to daylight time at 2027-03-14 07:00Z (reference-values.md, derived from
+    // New York moves to daylight time at 2027-03-14 07:00Z (docs/references.md, derived from
     // 15 U.S.C. 260a and the IANA tz data): EST (−5 h) before, EDT (−4 h) after.
     const f = footprintInstants([
       { shipBy: '2027-03-12', readyAgain: '2027-03-15', depotTimeZone: 'America/New_York' },
@@ -25,7 +25,7 @@ describe('deposit footprint, strategy and deadline', () => {
   });
 
   it('holds on the card only when the footprint ends inside the 7-day authorisation window', () => {
-    // Window: online card authorisations stay valid 7 days (reference-values.md, provider docs).
+    // Window: online card authorisations stay valid 7 days (docs/references.md, provider docs).
     const unit = { shipBy: '2027-06-01', readyAgain: '2027-06-05', depotTimeZone: 'UTC' };
     // Ends 2027-06-06T00:00Z: 6 days after this `now` → hold.
     expect(cardStrategy([unit], new Date('2027-05-31T00:00:00Z'))).toBe('authorise_hold');

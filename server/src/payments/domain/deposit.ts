@@ -9,11 +9,13 @@ import { findActiveCreditAgreement } from '../data-access/credit-agreement-repos
 import {
   findLoanDeposit,
   findLoanUnitDeposits,
+  type LoanDepositRow,
+} from '../data-access/loan-deposit-repository';
+import {
   findPayment,
   findReusableCheckout,
   insertPayment,
   updatePayment,
-  type LoanDepositRow,
   type PaymentRow,
 } from '../data-access/payment-repository';
 import {

@@ -11,7 +11,7 @@ import { LocalFileStore, newStorageKey } from '../../storage/file-store';
 import type { AuthContext } from '../../identity';
 import { canSeeLoan } from '../../loans';
 import { AppError } from '../../errors';
-import { findLoanDeposit } from '../data-access/payment-repository';
+import { findLoanDeposit } from '../data-access/loan-deposit-repository';
 import {
   findLoanDocument,
   findLoanDocuments,

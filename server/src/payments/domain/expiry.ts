@@ -3,7 +3,7 @@ import {
   findApprovedWithoutDeadline,
   findLoanDeposit,
   findOverdueLoans,
-} from '../data-access/payment-repository';
+} from '../data-access/loan-deposit-repository';
 import { closeOpenCheckouts, ensureDeadline, releasePayments } from './confirmation';
 import type { PaymentsDeps } from './deps';
 

@@ -3,12 +3,9 @@ import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { canSeeLoan } from '../../loans';
 import { findActiveCreditAgreement } from '../data-access/credit-agreement-repository';
-import {
-  findLoanDeposit,
-  findLoanPayments,
-  findLoanRefunds,
-  type PaymentRow,
-} from '../data-access/payment-repository';
+import { findLoanDeposit } from '../data-access/loan-deposit-repository';
+import { findLoanPayments, type PaymentRow } from '../data-access/payment-repository';
+import { findLoanRefunds } from '../data-access/refund-repository';
 import { ensureDeadline } from './confirmation';
 import type { PaymentsDeps } from './deps';
 

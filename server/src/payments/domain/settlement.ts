@@ -1,7 +1,7 @@
 import { settle, settleHold, type Charge, type ChargeAllocation } from '@evalon/deposits';
 import { AppError } from '../../errors';
+import { findLoanDeposit } from '../data-access/loan-deposit-repository';
 import {
-  findLoanDeposit,
   findLoanPayments,
   findPayment,
   updatePayment,

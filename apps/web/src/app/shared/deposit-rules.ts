@@ -13,7 +13,7 @@ import type {
 
 /**
  * What each strategy means for the hospital, in a sentence or two (our own words; the card
- * authorisation window of 7 days is the payment provider's, see reference-values.md).
+ * authorisation window of 7 days is the payment provider's, see docs/references.md).
  */
 export const depositStrategyExplanations: Readonly<Record<DepositStrategyName, string>> = {
   authorise_hold:

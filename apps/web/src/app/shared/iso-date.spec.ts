@@ -29,7 +29,7 @@ describe('ISO calendar dates', () => {
   });
 
   it('counts and moves calendar days across month, year and DST boundaries', () => {
-    // 2027-03-14 is the US change to daylight time (reference-values.md, 15 U.S.C. 260a): the day
+    // 2027-03-14 is the US change to daylight time (docs/references.md, 15 U.S.C. 260a): the day
     // count must not lose or gain a day over it.
     expect(addDays('2027-03-13', 2)).toBe('2027-03-15');
     expect(addDays('2026-12-30', 3)).toBe('2027-01-02');

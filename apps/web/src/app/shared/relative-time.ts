@@ -8,6 +8,18 @@ const HOUR_MS = 60 * MINUTE_MS;
 const DAY_MS = 24 * HOUR_MS;
 
 /**
+ * `ms` ago in words, for anything under a month: "just now" under a minute (never "0 seconds
+ * ago"), then whole minutes, hours and days ("yesterday" for one day: ECMA-402 `numeric: auto`).
+ */
+function recentAgo(ms: number, locale: string): string {
+  const words = new Intl.RelativeTimeFormat(locale, { numeric: 'auto' });
+  if (ms < MINUTE_MS) return 'just now';
+  if (ms < HOUR_MS) return words.format(-Math.floor(ms / MINUTE_MS), 'minute');
+  if (ms < DAY_MS) return words.format(-Math.floor(ms / HOUR_MS), 'hour');
+  return words.format(-Math.floor(ms / DAY_MS), 'day');
+}
+
+/**
  * How long ago `at` was, in the largest whole unit: "just now" under a minute, then minutes,
  * hours, "yesterday"/days up to a week, else the date in `timeZone` ("Dec 1" this year,
  * "Dec 1, 2025" before).
@@ -21,11 +33,7 @@ export function timeAgo(
   const then = Date.parse(at);
   if (Number.isNaN(then)) return '';
   const ms = Math.max(0, now.getTime() - then);
-  const words = new Intl.RelativeTimeFormat(locale, { numeric: 'auto' });
-  if (ms < MINUTE_MS) return 'just now';
-  if (ms < HOUR_MS) return words.format(-Math.floor(ms / MINUTE_MS), 'minute');
-  if (ms < DAY_MS) return words.format(-Math.floor(ms / HOUR_MS), 'hour');
-  if (ms < 7 * DAY_MS) return words.format(-Math.floor(ms / DAY_MS), 'day');
+  if (ms < 7 * DAY_MS) return recentAgo(ms, locale);
   const yearOf = (d: Date) =>
     new Intl.DateTimeFormat('en-US', { year: 'numeric', timeZone }).format(d);
   const date = new Date(then);
@@ -35,6 +43,23 @@ export function timeAgo(
     timeZone,
     ...(yearOf(date) === yearOf(now) ? {} : { year: 'numeric' }),
   }).format(date);
+}
+
+/**
+ * How long ago `at` was at any distance, in the largest whole unit: "just now" under a minute
+ * (never "0 seconds ago"), then minutes, hours, days, months (30-day steps) and years. For
+ * columns that show the exact time beside it, where a date would say the same thing twice.
+ */
+export function timeSince(at: string, now: Date = new Date(), locale = 'en-US'): string {
+  const then = Date.parse(at);
+  if (Number.isNaN(then)) return '';
+  const ms = Math.max(0, now.getTime() - then);
+  const days = Math.floor(ms / DAY_MS);
+  if (days < 30) return recentAgo(ms, locale);
+  // "1 month ago" rather than "last month", which reads as the calendar month before this one.
+  const counted = new Intl.RelativeTimeFormat(locale, { numeric: 'always' });
+  if (days < 365) return counted.format(-Math.floor(days / 30), 'month');
+  return counted.format(-Math.floor(days / 365), 'year');
 }
 
 /**

@@ -12,7 +12,6 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Router } from '@angular/router';
 import type { Depot, Hold, Loan, Milestones } from '@evalon/contracts';
 import { firstValueFrom } from 'rxjs';
@@ -36,6 +35,8 @@ import { UnitsApi } from '../units/units-api';
 import { describeHold } from '../../shared/holds';
 import { ApprovalsApi } from './approvals-api';
 import { DeclineDialog, DeclineDialogData } from './decline-dialog';
+import { LoadError, LoadingBar } from '../../shared/list-page';
+import { activeLender } from '../../shared/active-lender';
 
 /** A waiting request with what the list shows already worked out. */
 export interface RequestRow {
@@ -86,13 +87,14 @@ export function equipmentOf(loan: Loan): string {
 @Component({
   selector: 'ev-approval-queue',
   imports: [
+    LoadError,
+    LoadingBar,
     Cautions,
     EmptyState,
     HoldCalendar,
     MatButtonModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     MilestoneTimeline,
     PageHeader,
     StatusPill,
@@ -113,10 +115,7 @@ export class ApprovalQueue {
   /** `?loan=` from the address: the request shown beside the list. */
   readonly loan = input<string | undefined>(undefined);
 
-  protected readonly lender = computed(() => {
-    const organisation = this.session.activeOrganisation();
-    return organisation?.kind === 'lender' ? organisation : null;
-  });
+  protected readonly lender = activeLender();
 
   private readonly loans = signal<Loan[]>([]);
   private readonly depots = signal<Depot[]>([]);

@@ -90,7 +90,7 @@ describe('CatalogModels', () => {
     expect(scope!['units']).toContain('3');
     expect(scope!['units']).toContain('2 available');
     expect(fixture.nativeElement.querySelector('.summary').textContent).toContain(
-      '3 models · 6 units',
+      '3 models · 6 units in service',
     );
   });
 

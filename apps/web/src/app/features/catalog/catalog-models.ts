@@ -11,7 +11,6 @@ import { MatTooltipModule } from '@angular/material/tooltip';
 import type { Model, ModelCategory, ModelPage } from '@evalon/contracts';
 import { modelSortFields } from '@evalon/contracts/values';
 import { formatMoney } from '@evalon/deposits';
-import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { throwError } from 'rxjs';
@@ -19,8 +18,9 @@ import { noLender } from '../../core/api-error';
 import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { modelCategories, modelCategoryLabels } from './catalog-rules';
+import { modelCategories, modelCategoryLabels } from '@evalon/contracts/values';
 import { depositRuleShort } from './money';
+import { activeLender } from '../../shared/active-lender';
 
 /** A model with what the table shows already worked out. */
 export interface ModelRow {
@@ -56,16 +56,12 @@ export interface ModelRow {
 })
 export class CatalogModels {
   private readonly api = inject(LenderCatalogApi);
-  private readonly session = inject(SessionStore);
 
   protected readonly categories = modelCategories;
   protected readonly categoryLabels = modelCategoryLabels;
   protected readonly columns = ['name', 'category', 'listValue', 'deposit', 'units', 'actions'];
 
-  protected readonly lender = computed(() => {
-    const organisation = this.session.activeOrganisation();
-    return organisation?.kind === 'lender' ? organisation : null;
-  });
+  protected readonly lender = activeLender();
 
   /** Page, size, order, search words and category, in the URL. */
   protected readonly query = listQuery({
@@ -96,7 +92,10 @@ export class CatalogModels {
     const answer = this.models.answer();
     if (!answer) return '';
     const { total, unitTotal } = answer;
-    return `${total} ${total === 1 ? 'model' : 'models'} · ${unitTotal} ${unitTotal === 1 ? 'unit' : 'units'}`;
+    // Retired units are not counted here (nor in the Units column): they can never be lent. The
+    // units page counts them, so it says one more when one unit is retired; "in service" tells
+    // the reader which number this is.
+    return `${total} ${total === 1 ? 'model' : 'models'} · ${unitTotal} ${unitTotal === 1 ? 'unit' : 'units'} in service`;
   });
 
   /** The category filter's value, for the select. */

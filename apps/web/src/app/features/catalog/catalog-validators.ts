@@ -1,5 +1,5 @@
 import { AbstractControl, ValidationErrors, ValidatorFn } from '@angular/forms';
-import { gtin14Problem } from './catalog-rules';
+import { gtin14Problem } from '@evalon/contracts/values';
 import { amountProblem, percentToBps } from './money';
 
 /**

@@ -12,7 +12,7 @@ import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { applyServerErrors } from '../../shared/forms';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { countryPattern, depotLimits, wallTimePattern } from './catalog-rules';
+import { countryPattern, depotLimits, wallTimePattern } from '@evalon/contracts/values';
 import { trimmedMinLength } from './catalog-validators';
 
 /** What the depot dialog needs. */

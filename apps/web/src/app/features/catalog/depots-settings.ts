@@ -1,7 +1,6 @@
 import {
   ChangeDetectionStrategy,
   Component,
-  computed,
   effect,
   inject,
   signal,
@@ -18,13 +17,13 @@ import type { Depot } from '@evalon/contracts';
 import { firstValueFrom } from 'rxjs';
 import { messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
-import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
 import { DepotDialog, DepotDialogData, countryName } from './depot-dialog';
 import { ShippingSettingsForm } from './shipping-settings-form';
+import { activeLender } from '../../shared/active-lender';
 
 /** The lender's depots (add, change) and its shipping settings. */
 @Component({
@@ -47,14 +46,10 @@ import { ShippingSettingsForm } from './shipping-settings-form';
 })
 export class DepotsSettings {
   private readonly api = inject(LenderCatalogApi);
-  private readonly session = inject(SessionStore);
   private readonly dialog = inject(MatDialog);
   private readonly notifier = inject(Notifier);
 
-  protected readonly lender = computed(() => {
-    const organisation = this.session.activeOrganisation();
-    return organisation?.kind === 'lender' ? organisation : null;
-  });
+  protected readonly lender = activeLender();
 
   protected readonly depots = signal<Depot[]>([]);
   protected readonly loading = signal(false);

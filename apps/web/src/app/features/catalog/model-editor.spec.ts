@@ -101,7 +101,7 @@ describe('ModelEditor', () => {
         'USD has 2 decimal places at most.',
       ]);
 
-      // JPY has no minor unit (ISO 4217 exponent 0, reference-values.md "Money and payments").
+      // JPY has no minor unit (ISO 4217 exponent 0, docs/references.md "Money and payments").
       await (
         await loader.getHarness(MatSelectHarness.with({ selector: '[formControlName="currency"]' }))
       ).clickOptions({ text: 'JPY' });
@@ -127,7 +127,7 @@ describe('ModelEditor', () => {
         MatFormFieldHarness.with({ selector: '.col-gtin mat-form-field' }),
       );
 
-      // 890400021003 → check digit 7 (GS1 India check-digit page, reference-values.md).
+      // 890400021003 → check digit 7 (GS1 India check-digit page, docs/references.md).
       await gtin.setValue('08904000210038');
       await gtin.blur();
       expect(await gtinField.getTextErrors()).toEqual([
@@ -143,7 +143,7 @@ describe('ModelEditor', () => {
       expect(await gtin.getValue()).toBe('07300011000017');
       expect(await gtinField.getTextErrors()).toEqual([]);
 
-      // 629104150021 → 3 (reference-values.md): the wrong last digit stays unpadded and flagged.
+      // 629104150021 → 3 (docs/references.md): the wrong last digit stays unpadded and flagged.
       await gtin.setValue('6291041500214');
       await gtin.blur();
       expect(await gtin.getValue()).toBe('6291041500214');
@@ -164,7 +164,7 @@ describe('ModelEditor', () => {
       await (await input('[formControlName="max"]')).setValue('15000.00');
       await (await loader.getHarness(MatButtonHarness.with({ text: /Add item/ }))).click();
       await (await input('[aria-label="Item 1 name"]')).setValue('Camera control unit');
-      // 09521234543213 is a valid GTIN-14 (derived, reference-values.md).
+      // 09521234543213 is a valid GTIN-14 (derived, docs/references.md).
       await (await input('[aria-label="Item 1 GTIN"]')).setValue('09521234543213');
       await (await input('[aria-label="Item 1 quantity"]')).setValue('2');
       await (await loader.getHarness(MatCheckboxHarness)).check();

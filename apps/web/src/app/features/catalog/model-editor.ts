@@ -27,14 +27,18 @@ import { depositForModel, formatMoney } from '@evalon/deposits';
 import { firstValueFrom, map, startWith } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
-import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { applyServerErrors } from '../../shared/forms';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { modelCategories, modelCategoryLabels, modelLimits, padGtin } from './catalog-rules';
+import {
+  modelCategories,
+  modelCategoryLabels,
+  modelLimits,
+  padGtin,
+} from '@evalon/contracts/values';
 import { ModelPhotos } from './model-photos';
 import {
   buildModelForm,
@@ -45,6 +49,7 @@ import {
   toModelInput,
 } from './model-form';
 import { amountToMinor, commonCurrencies, isKnownCurrency, percentToBps } from './money';
+import { activeLender } from '../../shared/active-lender';
 
 /**
  * Lists a new model or edits one: details, list value and deposit rule (typed in major units,
@@ -77,7 +82,6 @@ import { amountToMinor, commonCurrencies, isKnownCurrency, percentToBps } from '
 export class ModelEditor {
   private readonly api = inject(LenderCatalogApi);
   private readonly fb = inject(NonNullableFormBuilder);
-  private readonly session = inject(SessionStore);
   private readonly router = inject(Router);
   private readonly dialog = inject(MatDialog);
   private readonly notifier = inject(Notifier);
@@ -99,10 +103,7 @@ export class ModelEditor {
   });
   /** Whether this page lists a new model (no id yet). */
   protected readonly isNew = computed(() => this.modelId() === undefined);
-  protected readonly lender = computed(() => {
-    const organisation = this.session.activeOrganisation();
-    return organisation?.kind === 'lender' ? organisation : null;
-  });
+  protected readonly lender = activeLender();
 
   protected readonly model = signal<Model | null>(null);
   protected readonly photos = signal<Photo[]>([]);

@@ -9,7 +9,7 @@ import {
   Validators,
 } from '@angular/forms';
 import type { Model, ModelCategory, ModelInput, PackingItem } from '@evalon/contracts';
-import { modelLimits } from './catalog-rules';
+import { modelLimits } from '@evalon/contracts/values';
 import {
   amountValidator,
   gtinValidator,

@@ -19,7 +19,7 @@ import { messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { maxPhotoBytes, photoContentTypes } from './catalog-rules';
+import { maxPhotoBytes, photoContentTypes } from '@evalon/contracts/values';
 
 /** A photo picked on this device, shown before it is uploaded. */
 interface PendingPhoto {
@@ -33,7 +33,7 @@ interface PendingPhoto {
  * this spares people an upload that would be refused (JPEG, PNG or WebP, at most 5 MB).
  */
 export function photoFileProblem(file: Pick<File, 'type' | 'size' | 'name'>): string | null {
-  if (!photoContentTypes.includes(file.type)) {
+  if (!(photoContentTypes as readonly string[]).includes(file.type)) {
     return `“${file.name}” is not a JPEG, PNG or WebP image.`;
   }
   if (file.size > maxPhotoBytes) {

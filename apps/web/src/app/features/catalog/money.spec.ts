@@ -9,7 +9,7 @@ import {
 } from './money';
 
 // Minor units follow ISO 4217 exponents, as the payment provider's documentation states:
-// 1000 = 10.00 USD, 10 = 10 JPY (reference-values.md, "Money and payments").
+// 1000 = 10.00 USD, 10 = 10 JPY (docs/references.md, "Money and payments").
 describe('catalogue money helpers', () => {
   it('shows minor units as the major-unit text a form holds', () => {
     expect(toMajorText(1000, 'USD')).toBe('10.00');

@@ -21,7 +21,7 @@ const url = `/api/lenders/${lenderId}/shipping-settings`;
 /**
  * Settings as a lender might keep them. The lead days follow the product brief's defaults (2,
  * and 3 for a first loan, after sample hospital loaner policies of 48 h / 72 h — policy text,
- * medium confidence per reference-values.md); the bands are an invented example.
+ * medium confidence per docs/references.md); the bands are an invented example.
  */
 const stored: ShippingSettings = {
   distanceBands: [

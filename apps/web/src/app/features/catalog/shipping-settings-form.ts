@@ -32,7 +32,7 @@ import { SessionStore } from '../../core/session-store';
 import { EmptyState } from '../../shared/empty-state/empty-state';
 import { applyServerErrors } from '../../shared/forms';
 import { LenderCatalogApi } from './lender-catalog-api';
-import { shippingLimits } from './catalog-rules';
+import { shippingLimits } from '@evalon/contracts/values';
 import { wholeNumberBetween } from './catalog-validators';
 
 /** One bounded distance band: up to `maxKm` km takes `days` transit business days. */

@@ -6,17 +6,14 @@ import {
   inject,
   signal,
 } from '@angular/core';
-import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatCardModule } from '@angular/material/card';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSlideToggle, MatSlideToggleChange } from '@angular/material/slide-toggle';
 import { MatTableModule } from '@angular/material/table';
 import type { CreditAgreement } from '@evalon/contracts';
-import { catchError, filter, forkJoin, of, switchMap, tap } from 'rxjs';
-import { messageOf } from '../../core/api-error';
+import { filter, forkJoin, switchMap, tap } from 'rxjs';
 import { Notifier } from '../../core/notifier';
 import { SessionStore } from '../../core/session-store';
 import { Cautions } from '../../shared/cautions/cautions';
@@ -26,6 +23,8 @@ import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { StatusPill } from '../../shared/status-pill/status-pill';
 import { CreditAgreementsApi, KnownHospital } from './credit-agreements-api';
+import { LoadError, LoadingBar, loadOnChange } from '../../shared/list-page';
+import { activeLender } from '../../shared/active-lender';
 
 /** One hospital in the table: its agreement (if one was ever recorded) and its loans with us. */
 export interface AgreementRow {
@@ -71,12 +70,13 @@ export function agreementRows(
 @Component({
   selector: 'ev-credit-agreements',
   imports: [
+    LoadError,
+    LoadingBar,
     Cautions,
     EmptyState,
     MatButtonModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     MatSlideToggle,
     MatTableModule,
     PageHeader,
@@ -94,10 +94,7 @@ export class CreditAgreements {
   private readonly locale = inject(LOCALE_ID);
 
   protected readonly columns = ['hospital', 'status', 'record', 'switch'];
-  protected readonly lender = computed(() => {
-    const o = this.session.activeOrganisation();
-    return o?.kind === 'lender' ? o : null;
-  });
+  protected readonly lender = activeLender();
   protected readonly rows = signal<AgreementRow[]>([]);
   protected readonly loading = signal(true);
   protected readonly loaded = signal(false);
@@ -111,30 +108,20 @@ export class CreditAgreements {
   );
 
   constructor() {
-    toObservable(computed(() => ({ lender: this.lender(), attempt: this.attempt() })))
-      .pipe(
-        filter(({ lender }) => lender !== null),
-        tap(() => {
-          this.loading.set(true);
-          this.loadError.set(null);
-        }),
-        switchMap(({ lender }) =>
-          forkJoin([this.api.list(lender!.id), this.api.knownHospitals(lender!.id)]).pipe(
-            catchError((error: unknown) => {
-              this.loadError.set(messageOf(error));
-              return of(null);
-            }),
-          ),
-        ),
-        takeUntilDestroyed(),
-      )
-      .subscribe((answer) => {
-        if (answer) {
-          this.rows.set(agreementRows(answer[0], answer[1]));
-          this.loaded.set(true);
-        }
-        this.loading.set(false);
-      });
+    loadOnChange({
+      params: computed(() => {
+        const lender = this.lender();
+        return lender ? { lenderId: lender.id, attempt: this.attempt() } : null;
+      }),
+      load: ({ lenderId }) =>
+        forkJoin([this.api.list(lenderId), this.api.knownHospitals(lenderId)]),
+      loading: this.loading,
+      error: this.loadError,
+      done: ([agreements, hospitals]) => {
+        this.rows.set(agreementRows(agreements, hospitals));
+        this.loaded.set(true);
+      },
+    });
   }
 
   /** Rows keep their element when an agreement changes, so focus stays on the switch. */

@@ -77,6 +77,8 @@ export class AvailabilityRow {
   readonly useDates = output<DatesChoice>();
 
   protected readonly chosen = computed(() => this.draft.unitIds().has(this.item().unitId));
+  // Merged into the search's own query (see the template), so the unit page's "Back to results"
+  // can return to the same category, words and compatibility filter as well as the dates.
   protected readonly unitQuery = computed(() => {
     const w = this.window();
     return { siteId: w.siteId, from: w.useFrom, to: w.useTo };

@@ -132,6 +132,38 @@ describe('UnitPage', () => {
     expect(text()).toContain('2 lines, 3 pieces; 1 serial-numbered');
   });
 
+  it('goes back to the same search: filters and dates', async () => {
+    fixture.componentRef.setInput('category', 'flexible_endoscope');
+    fixture.componentRef.setInput('q', 'scope');
+    fixture.componentRef.setInput('worksWith', '7');
+    http.expectOne((r) => r.url === '/api/units/5/holds').flush({ items: [] });
+    http
+      .expectOne((r) => r.url === '/api/availability')
+      .flush(
+        availabilityResponse([
+          availabilityItem({
+            unitId: 5,
+            serialNumber: 'MSU-0001',
+            milestones: milestonesFor('2027-03-01', '2027-03-03'),
+          }),
+        ]),
+      );
+    await settle();
+    const back = Array.from(
+      (fixture.nativeElement as HTMLElement).querySelectorAll<HTMLAnchorElement>('a'),
+    ).find((a) => a.textContent?.includes('Back to results'));
+    const url = new URL(back!.href, 'http://localhost');
+    expect(url.pathname).toBe('/equipment');
+    expect(Object.fromEntries(url.searchParams)).toEqual({
+      category: 'flexible_endoscope',
+      q: 'scope',
+      worksWith: '7',
+      siteId: '11',
+      from: '2027-03-01',
+      to: '2027-03-03',
+    });
+  });
+
   it('adds the unit to the request', async () => {
     http.expectOne((r) => r.url === '/api/units/5/holds').flush({ items: [] });
     http

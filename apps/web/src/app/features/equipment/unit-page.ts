@@ -89,6 +89,12 @@ export class UnitPage {
   readonly from = input<string>();
   /** `?to=` last case day. */
   readonly to = input<string>();
+  /** `?category=` of the search that led here, kept for "Back to results". */
+  readonly category = input<string>();
+  /** `?q=` words of the search that led here, kept for "Back to results". */
+  readonly q = input<string>();
+  /** `?worksWith=` model filter of the search that led here, kept for "Back to results". */
+  readonly worksWith = input<string>();
 
   protected readonly categoryLabels = modelCategoryLabels;
 
@@ -336,8 +342,9 @@ export class UnitPage {
   }
 
   protected searchLink(): Record<string, string | number | undefined> {
-    if (!this.hasDates()) return { siteId: this.campus()?.id };
-    return { siteId: this.campus()?.id, from: this.from(), to: this.to() };
+    const filters = { category: this.category(), q: this.q(), worksWith: this.worksWith() };
+    if (!this.hasDates()) return { ...filters, siteId: this.campus()?.id };
+    return { ...filters, siteId: this.campus()?.id, from: this.from(), to: this.to() };
   }
 
   protected packingCount(model: Model): { items: number; pieces: number; serialised: number } {

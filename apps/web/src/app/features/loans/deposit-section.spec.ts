@@ -312,7 +312,7 @@ describe('DepositSection', () => {
 describe('estimatedCardStrategy', () => {
   const zones = new Map([[depotEast.id, depotEast.timeZone]]);
   // The rule is @evalon/deposits' chooseStrategy (7-day card authorisation window, per the
-  // payment provider's documentation in reference-values.md); this checks the footprint we pass.
+  // payment provider's documentation in docs/references.md); this checks the footprint we pass.
   it('holds the card when ship-by to ready-again ends within 7 days of now', () => {
     const short = loan({ id: 2, reference: 'EV-2026-000002', state: 'approved' });
     const unit = {

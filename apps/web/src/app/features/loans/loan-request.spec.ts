@@ -177,6 +177,18 @@ describe('LoanRequest', () => {
     expect(await (await range.getEndInput()).getValue()).toBe(typed(useTo));
   });
 
+  it('marks the units step done (Material shows its edit pencil) only once it has been opened', async () => {
+    await open();
+    const stepper = await loader.getHarness(MatStepperHarness);
+    const [, units] = await stepper.getSteps();
+    // The chosen units already fit, but the person has not seen the step yet.
+    expect(await units!.isCompleted()).toBe(false);
+    await click(/Next: units/);
+    await click(/Next: review/);
+    expect(await selectedStep()).toBe('Review and send');
+    expect(await units!.isCompleted()).toBe(true);
+  });
+
   it('offers compatible units on the units step and adds one', async () => {
     await harness.navigateByUrl('/loans/new');
     loader = TestbedHarnessEnvironment.loader(harness.fixture);

@@ -21,6 +21,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
+import type { StepperSelectionEvent } from '@angular/cdk/stepper';
 import { MatStepper, MatStepperModule } from '@angular/material/stepper';
 import { Router, RouterLink } from '@angular/router';
 import type {
@@ -235,6 +236,13 @@ export class LoanRequest {
       .map((unit) => ({ unit, item: checks?.items.get(unit.unitId) ?? null }));
   });
   /** Whether every chosen unit fits the window (so the request can go). */
+  /**
+   * Steps the person has opened (the first is open from the start). A step counts as completed
+   * only once opened, so Material's header does not offer the edit pencil on a step the person
+   * has not seen yet (e.g. units that already fit when the request starts).
+   */
+  protected readonly openedSteps = signal<ReadonlySet<number>>(new Set([0]));
+
   protected readonly allFit = computed(
     () =>
       this.checksCurrent() && this.rows().length > 0 && this.rows().every((r) => r.item?.feasible),
@@ -301,6 +309,11 @@ export class LoanRequest {
     });
 
     this.destroyRef.onDestroy(() => this.checkRun?.unsubscribe());
+  }
+
+  /** Records the step the stepper moved to (Material's `selectionChange`). */
+  protected stepOpened(event: StepperSelectionEvent): void {
+    this.openedSteps.update((opened) => new Set(opened).add(event.selectedIndex));
   }
 
   /** The words under the case-days field. */

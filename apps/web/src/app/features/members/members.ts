@@ -24,6 +24,7 @@ import { PageHeader } from '../../shared/page-header/page-header';
 import { InviteDialog, InviteDialogData } from './invite-dialog';
 import { MembersApi } from './members-api';
 import { MemberStatus, statusIcons, statusLabels, statusOf } from './member-status';
+import { timeSince } from '../../shared/relative-time';
 
 /** A member with what the table shows already worked out. */
 interface MemberRow {
@@ -135,6 +136,7 @@ export class Members {
     const me = this.session.user()?.id;
     const zone = this.session.timeZone();
     const assignable = this.assignableRoles();
+    const now = new Date();
     return members.map((member) => {
       const at = member.lastSignInAt ? DateTime.fromISO(member.lastSignInAt, { zone }) : null;
       const status = statusOf(member);
@@ -149,7 +151,7 @@ export class Members {
         lastSignIn:
           at && at.isValid
             ? {
-                relative: at.toRelative() ?? '',
+                relative: timeSince(at.toISO() ?? '', now),
                 exact: at.toLocaleString(DateTime.DATETIME_MED),
                 iso: at.toISO() ?? '',
               }

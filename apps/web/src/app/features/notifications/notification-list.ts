@@ -6,16 +6,12 @@ import {
   inject,
   signal,
 } from '@angular/core';
-import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCardModule } from '@angular/material/card';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { Router } from '@angular/router';
 import type { Notification } from '@evalon/contracts';
-import { catchError, of, switchMap, tap } from 'rxjs';
-import { messageOf } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
 import { SessionStore } from '../../core/session-store';
 import { NotificationInbox } from '../../core/shell/notification-inbox';
@@ -23,6 +19,7 @@ import { EmptyState } from '../../shared/empty-state/empty-state';
 import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { timeAgo } from '../../shared/relative-time';
+import { LoadError, LoadingBar, loadOnChange } from '../../shared/list-page';
 
 /** How many notifications a page of the list holds. */
 export const NOTIFICATION_PAGE_SIZE = 20;
@@ -55,12 +52,13 @@ interface Row {
 @Component({
   selector: 'ev-notification-list',
   imports: [
+    LoadError,
+    LoadingBar,
     EmptyState,
     MatButtonModule,
     MatButtonToggleModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     PageHeader,
   ],
   templateUrl: './notification-list.html',
@@ -96,29 +94,17 @@ export class NotificationList {
   });
 
   constructor() {
-    toObservable(computed(() => ({ filter: this.filter(), attempt: this.attempt() })))
-      .pipe(
-        tap(() => {
-          this.loading.set(true);
-          this.loadError.set(null);
-        }),
-        switchMap(({ filter }) =>
-          this.inbox.list({ unreadOnly: filter === 'unread', limit: NOTIFICATION_PAGE_SIZE }).pipe(
-            catchError((error: unknown) => {
-              this.loadError.set(messageOf(error));
-              return of(null);
-            }),
-          ),
-        ),
-        takeUntilDestroyed(),
-      )
-      .subscribe((answer) => {
-        if (answer) {
-          this.items.set(answer.items);
-          this.hasMore.set(answer.items.length === NOTIFICATION_PAGE_SIZE);
-        }
-        this.loading.set(false);
-      });
+    loadOnChange({
+      params: computed(() => ({ filter: this.filter(), attempt: this.attempt() })),
+      load: ({ filter }) =>
+        this.inbox.list({ unreadOnly: filter === 'unread', limit: NOTIFICATION_PAGE_SIZE }),
+      loading: this.loading,
+      error: this.loadError,
+      done: (answer) => {
+        this.items.set(answer.items);
+        this.hasMore.set(answer.items.length === NOTIFICATION_PAGE_SIZE);
+      },
+    });
   }
 
   protected setFilter(value: NotificationFilter): void {

@@ -6,17 +6,15 @@ import {
   inject,
   signal,
 } from '@angular/core';
-import { takeUntilDestroyed, toObservable } from '@angular/core/rxjs-interop';
 import { MatButtonModule } from '@angular/material/button';
 import { MatButtonToggleModule } from '@angular/material/button-toggle';
 import { MatCardModule } from '@angular/material/card';
 import { MatDialog } from '@angular/material/dialog';
 import { MatIconModule } from '@angular/material/icon';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
 import type { OutboxMessage, OutboxStatus } from '@evalon/contracts';
-import { catchError, filter, of, switchMap, tap } from 'rxjs';
-import { ApiError, messageOf } from '../../core/api-error';
+import { filter, switchMap, tap } from 'rxjs';
+import { ApiError } from '../../core/api-error';
 import { Notifier } from '../../core/notifier';
 import { SessionStore } from '../../core/session-store';
 import { confirmAction } from '../../shared/confirm-dialog/confirm-dialog';
@@ -25,6 +23,7 @@ import { EmptyState } from '../../shared/empty-state/empty-state';
 import { formatInstant } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { OutboxApi } from './outbox-api';
+import { LoadError, LoadingBar, loadOnChange } from '../../shared/list-page';
 
 /** The statuses the admin can look at, most useful first. */
 const shownStatuses: readonly OutboxStatus[] = ['parked', 'pending', 'sent'];
@@ -37,12 +36,13 @@ const shownStatuses: readonly OutboxStatus[] = ['parked', 'pending', 'sent'];
 @Component({
   selector: 'ev-outbox-page',
   imports: [
+    LoadError,
+    LoadingBar,
     EmptyState,
     MatButtonModule,
     MatButtonToggleModule,
     MatCardModule,
     MatIconModule,
-    MatProgressBarModule,
     MatTableModule,
     PageHeader,
   ],
@@ -75,29 +75,16 @@ export class OutboxPage {
   );
 
   constructor() {
-    toObservable(computed(() => ({ status: this.status(), attempt: this.attempt() })))
-      .pipe(
-        tap(() => {
-          this.loading.set(true);
-          this.loadError.set(null);
-        }),
-        switchMap(({ status }) =>
-          this.api.list(status).pipe(
-            catchError((error: unknown) => {
-              this.loadError.set(messageOf(error));
-              return of(null);
-            }),
-          ),
-        ),
-        takeUntilDestroyed(),
-      )
-      .subscribe((messages) => {
-        if (messages) {
-          this.messages.set(messages);
-          this.loaded.set(true);
-        }
-        this.loading.set(false);
-      });
+    loadOnChange({
+      params: computed(() => ({ status: this.status(), attempt: this.attempt() })),
+      load: ({ status }) => this.api.list(status),
+      loading: this.loading,
+      error: this.loadError,
+      done: (messages) => {
+        this.messages.set(messages);
+        this.loaded.set(true);
+      },
+    });
   }
 
   protected setStatus(status: OutboxStatus): void {

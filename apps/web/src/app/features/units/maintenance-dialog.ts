@@ -13,7 +13,7 @@ import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { applyServerErrors } from '../../shared/forms';
 import { describeZone, fromIsoDate, toIsoDate } from '../../shared/iso-date';
-import { maintenanceReasonLimits } from '../catalog/catalog-rules';
+import { maintenanceReasonLimits } from '@evalon/contracts/values';
 import { trimmedMinLength } from '../catalog/catalog-validators';
 import { UnitsApi } from './units-api';
 

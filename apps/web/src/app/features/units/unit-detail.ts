@@ -28,12 +28,8 @@ import { describeHold } from '../../shared/holds';
 import { describeZone, formatWindow, todayIn, windowLength } from '../../shared/iso-date';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { StatusPill } from '../../shared/status-pill/status-pill';
-import {
-  modelCategoryLabels,
-  unitStatusIcons,
-  unitStatusLabels,
-  unitStatusTones,
-} from '../catalog/catalog-rules';
+import { modelCategoryLabels, unitStatusLabels } from '@evalon/contracts/values';
+import { unitStatusIcons, unitStatusTones } from './unit-status';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { MaintenanceDialog, MaintenanceDialogData } from './maintenance-dialog';
 import { UnitDialog, UnitDialogData } from './unit-dialog';

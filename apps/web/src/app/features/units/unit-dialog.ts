@@ -10,7 +10,7 @@ import type { Unit, UnitStatus } from '@evalon/contracts';
 import { firstValueFrom } from 'rxjs';
 import { ApiError, messageOf } from '../../core/api-error';
 import { applyServerErrors } from '../../shared/forms';
-import { padGtin, unitLimits, unitStatusLabels, unitStatuses } from '../catalog/catalog-rules';
+import { padGtin, unitLimits, unitStatusLabels, unitStatuses } from '@evalon/contracts/values';
 import { gtinValidator, trimmedMinLength } from '../catalog/catalog-validators';
 import { UnitsApi } from './units-api';
 

@@ -34,16 +34,12 @@ import { formatWindow, todayIn } from '../../shared/iso-date';
 import { ListPage, ListPageParts, listQuery, listSource, listWords } from '../../shared/list-page';
 import { PageHeader } from '../../shared/page-header/page-header';
 import { PillTone, StatusPill } from '../../shared/status-pill/status-pill';
-import {
-  modelCategoryLabels,
-  unitStatusIcons,
-  unitStatusLabels,
-  unitStatusTones,
-  unitStatuses,
-} from '../catalog/catalog-rules';
+import { modelCategoryLabels, unitStatusLabels, unitStatuses } from '@evalon/contracts/values';
+import { unitStatusIcons, unitStatusTones } from './unit-status';
 import { LenderCatalogApi } from '../catalog/lender-catalog-api';
 import { UnitDialog, UnitDialogData } from './unit-dialog';
 import { UnitsApi } from './units-api';
+import { activeLender } from '../../shared/active-lender';
 
 /** The next hold of a unit: not looked up yet, none, or the hold. */
 export type NextHold =
@@ -105,10 +101,7 @@ export class UnitList {
   protected readonly statusLabels = unitStatusLabels;
   protected readonly columns = ['serial', 'model', 'depot', 'status', 'next', 'actions'];
 
-  protected readonly lender = computed(() => {
-    const organisation = this.session.activeOrganisation();
-    return organisation?.kind === 'lender' ? organisation : null;
-  });
+  protected readonly lender = activeLender();
   /** Whether the person may add and change units (fleet managers; coordinators only look). */
   protected readonly canEdit = computed(() => this.session.hasAnyRole(['fleet_manager']));
 

@@ -22,3 +22,5 @@ export const ListPageParts = [
   ListNoRows,
   RowLink,
 ] as const;
+export * from './load-state';
+export * from './load-on-change';

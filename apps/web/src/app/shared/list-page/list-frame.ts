@@ -1,10 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input } from '@angular/core';
-import { MatButtonModule } from '@angular/material/button';
-import { MatIconModule } from '@angular/material/icon';
 import { MatPaginatorModule, type PageEvent } from '@angular/material/paginator';
-import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { pageSizeOptions } from '@evalon/contracts/values';
-import { EmptyState } from '../empty-state/empty-state';
+import { LoadError, LoadingBar } from './load-state';
 import type { ListPage } from './list-page';
 
 /**
@@ -15,25 +12,15 @@ import type { ListPage } from './list-page';
  */
 @Component({
   selector: 'ev-list-frame',
-  imports: [EmptyState, MatButtonModule, MatIconModule, MatPaginatorModule, MatProgressBarModule],
+  imports: [LoadError, LoadingBar, MatPaginatorModule],
   template: `
-    <div class="progress-slot">
-      @if (list().source.loading()) {
-        <mat-progress-bar mode="indeterminate" [attr.aria-label]="list().words.loading" />
-      }
-    </div>
+    <ev-loading-bar [active]="list().source.loading()" [label]="list().words.loading" />
     @if (list().source.error(); as message) {
-      <ev-empty-state
-        tone="error"
-        icon="cloud_off"
+      <ev-load-error
         [heading]="list().words.error"
         [message]="message"
-      >
-        <button mat-stroked-button type="button" (click)="list().source.reload()">
-          <mat-icon>refresh</mat-icon>
-          Try again
-        </button>
-      </ev-empty-state>
+        (retry)="list().source.reload()"
+      />
     } @else if (empty()) {
       <ng-content select="ev-empty-state" />
     }
@@ -52,9 +39,6 @@ import type { ListPage } from './list-page';
   styles: `
     :host {
       display: block;
-    }
-    .progress-slot {
-      height: 4px;
     }
     .table-area.hidden {
       display: none;
