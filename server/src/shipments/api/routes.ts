@@ -26,7 +26,8 @@ import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import type { ShipmentsDeps } from '../domain/deps';
 import { attestDecontamination, confirmReceipt, handOver, receiveReturn } from '../domain/handling';
 import { recordInspection, settleLoan } from '../domain/inspection';
-import { getShipment, listShipments } from '../domain/queries';
+import { assertLoanVisible } from '../../loans';
+import { assertShipmentVisible, getShipment, listShipments } from '../domain/queries';
 import { handleTrackingEvent } from '../domain/tracking';
 import { packingSlip } from '../domain/packing-slip';
 import {
@@ -103,6 +104,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
         '`serial_already_scanned`, `quantity_complete`. Refusals are kept in the shipment’s scans.',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: scanRequest,
       responses: {
         201: { description: 'Ticked.', schema: scanResponse },
@@ -132,6 +135,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'Tick a checklist line by hand (a reason is required)',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: manualTickRequest,
       responses: {
         200: { description: 'Ticked.', schema: shipmentResponse },
@@ -151,6 +156,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'Close the checklist: SSCC from the lender’s GS1 company prefix, state packed',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       responses: {
         200: { description: 'Packed.', schema: shipmentResponse },
         409: error('`checklist_incomplete` (details list what is left) or `gs1_prefix_missing`.'),
@@ -194,6 +201,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
         'the shipment with its tracking number.',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: handOverRequest,
       responses: {
         200: { description: 'Handed over.', schema: shipmentResponse },
@@ -214,6 +223,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'The hospital confirms receipt (missing items, condition notes)',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: receiptRequest,
       responses: {
         200: { description: 'Recorded.', schema: shipmentResponse },
@@ -237,6 +248,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
         'sterile-processing policy; Evalon records the attestation.',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: decontaminationRequest,
       responses: {
         200: { description: 'Recorded.', schema: shipmentResponse },
@@ -256,6 +269,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'The depot receives a return (missing items listed)',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
       responses: {
         200: { description: 'Received.', schema: receiveAnswer },
         409: error('Not a return on its way back.'),
@@ -340,6 +355,8 @@ export function loanInspectionRoutes(deps: ShipmentsDeps, catalogue: CatalogueEn
       summary: 'Record the return inspection (findings, charges, repairs)',
       access: { authenticated: true },
       params: loanParams,
+      scope: (req, params) =>
+        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: inspectionRequest,
       responses: {
         204: { description: 'Recorded.' },
@@ -363,6 +380,8 @@ export function loanInspectionRoutes(deps: ShipmentsDeps, catalogue: CatalogueEn
         'answers the same settlement; while one runs, 409 `settlement_in_progress`.',
       access: { authenticated: true },
       params: loanParams,
+      scope: (req, params) =>
+        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
       responses: {
         200: { description: 'Settled.', schema: settlementResponse },
         409: error('`not_inspected` or `settlement_in_progress`.'),

@@ -10,7 +10,7 @@ import type { EntityManager } from 'typeorm';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { hospitalsOf, lendersOf } from '../../catalog';
-import { findEvents, findItems, findScans } from '../data-access/shipment-repository';
+import { findEvents, findItems, findScans, findShipment } from '../data-access/shipment-repository';
 import { rolesOn } from './access';
 import { isUnderway } from './states';
 
@@ -254,4 +254,20 @@ export async function getShipment(
     decontamination,
     actions,
   };
+}
+
+/**
+ * Refuses (404) a shipment the person may not see: the scope check of the `/api/shipments/:id/...`
+ * routes that take a body, run before the body is validated. The use case checks again (and
+ * which side the step belongs to) under its lock.
+ */
+export async function assertShipmentVisible(
+  m: EntityManager,
+  auth: AuthContext,
+  shipmentId: number,
+): Promise<void> {
+  const s = await findShipment(m, shipmentId);
+  if (!s || !rolesOn(auth, s).sees) {
+    throw AppError.notFound('shipment_not_found', 'There is no such shipment.');
+  }
 }
