@@ -26,8 +26,12 @@ import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import type { ShipmentsDeps } from '../domain/deps';
 import { attestDecontamination, confirmReceipt, handOver, receiveReturn } from '../domain/handling';
 import { recordInspection, settleLoan } from '../domain/inspection';
-import { assertLoanVisible } from '../../loans';
-import { assertShipmentVisible, getShipment, listShipments } from '../domain/queries';
+import {
+  assertLenderOfLoan,
+  assertShipmentSide,
+  getShipment,
+  listShipments,
+} from '../domain/queries';
 import { handleTrackingEvent } from '../domain/tracking';
 import { packingSlip } from '../domain/packing-slip';
 import {
@@ -105,7 +109,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       body: scanRequest,
       responses: {
         201: { description: 'Ticked.', schema: scanResponse },
@@ -136,7 +140,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       body: manualTickRequest,
       responses: {
         200: { description: 'Ticked.', schema: shipmentResponse },
@@ -157,7 +161,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       responses: {
         200: { description: 'Packed.', schema: shipmentResponse },
         409: error('`checklist_incomplete` (details list what is left) or `gs1_prefix_missing`.'),
@@ -202,7 +206,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'by-direction'),
       body: handOverRequest,
       responses: {
         200: { description: 'Handed over.', schema: shipmentResponse },
@@ -224,7 +228,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'buyer'),
       body: receiptRequest,
       responses: {
         200: { description: 'Recorded.', schema: shipmentResponse },
@@ -249,7 +253,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'buyer'),
       body: decontaminationRequest,
       responses: {
         200: { description: 'Recorded.', schema: shipmentResponse },
@@ -270,7 +274,7 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       access: { authenticated: true },
       params: shipmentParams,
       scope: (req, params) =>
-        assertShipmentVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       responses: {
         200: { description: 'Received.', schema: receiveAnswer },
         409: error('Not a return on its way back.'),
@@ -356,7 +360,7 @@ export function loanInspectionRoutes(deps: ShipmentsDeps, catalogue: CatalogueEn
       access: { authenticated: true },
       params: loanParams,
       scope: (req, params) =>
-        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertLenderOfLoan(deps.dataSource.manager, currentAuth(req), params.id),
       body: inspectionRequest,
       responses: {
         204: { description: 'Recorded.' },
@@ -381,7 +385,7 @@ export function loanInspectionRoutes(deps: ShipmentsDeps, catalogue: CatalogueEn
       access: { authenticated: true },
       params: loanParams,
       scope: (req, params) =>
-        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
+        assertLenderOfLoan(deps.dataSource.manager, currentAuth(req), params.id),
       responses: {
         200: { description: 'Settled.', schema: settlementResponse },
         409: error('`not_inspected` or `settlement_in_progress`.'),

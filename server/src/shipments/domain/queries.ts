@@ -11,7 +11,7 @@ import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { hospitalsOf, lendersOf } from '../../catalog';
 import { findEvents, findItems, findScans, findShipment } from '../data-access/shipment-repository';
-import { rolesOn } from './access';
+import { requireSide, rolesOn } from './access';
 import { isUnderway } from './states';
 
 type Sql = Record<string, unknown>;
@@ -257,17 +257,48 @@ export async function getShipment(
 }
 
 /**
- * Refuses (404) a shipment the person may not see: the scope check of the `/api/shipments/:id/...`
- * routes that take a body, run before the body is validated. The use case checks again (and
- * which side the step belongs to) under its lock.
+ * The scope check of the `/api/shipments/:id/...` routes that change a shipment, run before the
+ * body is validated: 404 when the person may not see the shipment, 403 when the step belongs to
+ * the other side (`by-direction`: the lender hands over outbound legs, the hospital returns).
+ * The use case checks again under its lock.
  */
-export async function assertShipmentVisible(
+export async function assertShipmentSide(
   m: EntityManager,
   auth: AuthContext,
   shipmentId: number,
+  side: 'lender' | 'buyer' | 'by-direction',
 ): Promise<void> {
   const s = await findShipment(m, shipmentId);
-  if (!s || !rolesOn(auth, s).sees) {
-    throw AppError.notFound('shipment_not_found', 'There is no such shipment.');
+  if (!s) throw AppError.notFound('shipment_not_found', 'There is no such shipment.');
+  requireSide(
+    auth,
+    s,
+    side === 'by-direction' ? (s.direction === 'outbound' ? 'lender' : 'buyer') : side,
+  );
+}
+
+/**
+ * The scope check of `/api/loans/:id/inspection` and `/settle`: 404 for a loan the person may
+ * not see, 403 for anyone but the lender's people, before the body is validated.
+ */
+export async function assertLenderOfLoan(
+  m: EntityManager,
+  auth: AuthContext,
+  loanId: number,
+): Promise<void> {
+  const [row]: Sql[] = await m.query('SELECT lender_id, hospital_id FROM loans WHERE id = ?', [
+    loanId,
+  ]);
+  const loan = row
+    ? { lenderId: Number(row.lender_id), hospitalId: Number(row.hospital_id) }
+    : null;
+  if (!loan || !rolesOn(auth, loan).sees) {
+    throw AppError.notFound('loan_not_found', 'There is no such loan.');
+  }
+  if (!rolesOn(auth, loan).lender) {
+    throw AppError.forbidden(
+      'forbidden',
+      'Only the lender’s coordinators and fleet managers can do this.',
+    );
   }
 }
