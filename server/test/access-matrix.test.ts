@@ -15,8 +15,13 @@ import {
   matrixRoles,
   renderMatrix,
   runMatrix,
+  fillPath,
+  matrixClients,
+  type MatrixFixture,
   type MatrixRow,
 } from './helpers/access-matrix';
+import { hostileBodies, type OpenApi } from './helpers/fuzz-bodies';
+import { appTables } from '../src/database/data-source';
 import { RecordingMailer } from './helpers/recording-mailer';
 import { testDatabasePrefix } from './test-database';
 
@@ -27,6 +32,8 @@ let config: Config;
 let dataSource: DataSource;
 let app: Express;
 let rows: MatrixRow[];
+let openapi: OpenApi;
+let fixture: MatrixFixture;
 const standin = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'evalon-matrix-')), 'maps.js');
 fs.writeFileSync(standin, 'window.google = { maps: { version: "evalon-offline" } };\n');
 
@@ -72,9 +79,9 @@ beforeAll(async () => {
     // Jest cannot import the ES module that finds the built stand-in (maps.test.ts does the same).
     maps: { apiKey: null, hostedScriptUrl: '', standinPath: async () => standin },
   });
-  const fixture = await buildMatrixFixture(dataSource, app);
+  fixture = await buildMatrixFixture(dataSource, app);
   const request = (await import('supertest')).default;
-  const openapi = (await request(app).get('/api/openapi.json').expect(200)).body;
+  openapi = (await request(app).get('/api/openapi.json').expect(200)).body as OpenApi;
   rows = await runMatrix(app, fixture, bodyRoutes(openapi));
   if (process.env.EVALON_WRITE_ACCESS_MATRIX === '1') {
     fs.mkdirSync(path.dirname(matrixFile), { recursive: true });
@@ -287,5 +294,70 @@ describe('access matrix: every route × every demo role × own and another organ
   it('has a current docs/security/access-matrix.md (npm run security:access-matrix)', () => {
     const onDisk = fs.existsSync(matrixFile) ? fs.readFileSync(matrixFile, 'utf8') : '';
     expect(onDisk).toBe(renderMatrix(rows));
+  });
+});
+
+// Tables whose rows change with any request (sessions touched, refusals audited) are left out of
+// the "nothing written" comparison.
+const volatileTables = new Set(['sessions', 'audit_events']);
+async function rowCounts(): Promise<Record<string, number>> {
+  const counts: Record<string, number> = {};
+  for (const table of appTables.filter((t) => !volatileTables.has(t))) {
+    const [row] = await dataSource.query(`SELECT COUNT(*) AS n FROM \`${table}\``);
+    counts[table] = Number(row.n);
+  }
+  return counts;
+}
+
+/** Bodies per write route; fast-check's seed is fixed so a failure repeats. */
+const casesPerRoute = 25;
+
+describe('fuzzed bodies on every write route with a body contract', () => {
+  it('answers 400/413/422 with a code (field details on 422), never 5xx, and writes nothing', async () => {
+    const clients = await matrixClients(app);
+    const report: string[] = [];
+    const problems: string[] = [];
+    const targets = rows.filter(
+      (r) => r.body && r.path !== '/api/auth/logout' && !r.path.startsWith('/api/webhooks/'),
+    );
+    for (const r of targets) {
+      // The first role that gets past access with its own ids (see the matrix), so the body
+      // reaches validation.
+      const role = matrixRoles.find((x) => r.cells[x].own === 422)!;
+      const path = fillPath(r.path, fixture.own[role], fixture.outbox);
+      const bodies = hostileBodies(openapi, r.method, r.path, casesPerRoute);
+      const before = await rowCounts();
+      const seen = new Map<number, number>();
+      for (const text of bodies) {
+        const client = clients[role];
+        const method = r.method.toLowerCase() as 'post' | 'put' | 'patch';
+        const res = await client.agent[method](path)
+          .set('X-XSRF-TOKEN', client.csrf)
+          .set('Content-Type', 'application/json')
+          .send(text);
+        seen.set(res.status, (seen.get(res.status) ?? 0) + 1);
+        const okStatus = res.status === 400 || res.status === 413 || res.status === 422;
+        const hasCode = typeof res.body?.error?.code === 'string';
+        const hasDetails = res.status !== 422 || res.body?.error?.details !== undefined;
+        if (!okStatus || !hasCode || !hasDetails) {
+          problems.push(
+            `${r.method} ${r.path} as ${role}: ${res.status} for ${text.slice(0, 200)}`,
+          );
+        }
+      }
+      const after = await rowCounts();
+      const changed = Object.keys(before).filter((t) => before[t] !== after[t]);
+      if (changed.length)
+        problems.push(`${r.method} ${r.path}: rows changed in ${changed.join(', ')}`);
+      report.push(
+        `${r.method} ${r.path} (${role}): ${bodies.length} cases → ${[...seen]
+          .map(([status, n]) => `${n}×${status}`)
+          .join(', ')}`,
+      );
+    }
+    // The per-route counts go to the test output (reported in the closing note).
+    console.log(`fuzz cases per route:\n${report.join('\n')}`);
+    expect(targets.length).toBeGreaterThanOrEqual(40);
+    expect(problems).toEqual([]);
   });
 });
