@@ -56,4 +56,29 @@ describe('every route checks who may call it before it reads the body', () => {
       .expect(422);
     expect(mine.body.error.code).toBe('validation_failed');
   });
+
+  it('answers 404 to another hospital’s buyer cancelling a loan with a one-letter reason', async () => {
+    const lender = await makeLender(t.dataSource);
+    const hospital = await makeHospital(t.dataSource);
+    const stranger = await makeHospital(t.dataSource);
+    const loan = await insertApprovedLoan(t.dataSource, lender, hospital);
+    const client = await signedInClient(t.app, stranger.buyer.email, stranger.buyer.password);
+    const res = await client.agent
+      .post(`/api/loans/${loan.id}/cancel`)
+      .set('X-XSRF-TOKEN', client.csrf)
+      .send({ reason: 'x' })
+      .expect(404);
+    expect(res.body.error.code).toBe('loan_not_found');
+    const [row] = await t.dataSource.query('SELECT state FROM loans WHERE id = ?', [loan.id]);
+    expect(row.state).toBe('approved');
+
+    // The loan's own buyer is told what is wrong with the reason instead.
+    const own = await signedInClient(t.app, hospital.buyer.email, hospital.buyer.password);
+    const mine = await own.agent
+      .post(`/api/loans/${loan.id}/cancel`)
+      .set('X-XSRF-TOKEN', own.csrf)
+      .send({ reason: 'x' })
+      .expect(422);
+    expect(mine.body.error.code).toBe('validation_failed');
+  });
 });

@@ -39,7 +39,7 @@ export { setLoanDepositDueAt, setLoanDepositOutcome } from './data-access/loan-r
 // Shipments lock a loan (before its legs) to move it along the journey.
 export { lockLoan } from './data-access/loan-repository';
 export type { HoldRow, LoanRow, LoanUnitRow } from './data-access/entities';
-export { canSeeLoan, getLoan, listLoans } from './domain/queries';
+export { assertLoanVisible, canSeeLoan, getLoan, listLoans } from './domain/queries';
 
 /** Loans, their units, holds and events: tables, the state machine and `/api/loans`. */
 export const loansComponent: AppComponent = {

@@ -39,10 +39,17 @@ import {
   saveShippingSettings,
   shippingSettingsOf,
 } from '../domain/depots';
-import { changeModel, createModel, getModel, listModels } from '../domain/models';
+import {
+  assertModelChangeable,
+  changeModel,
+  createModel,
+  getModel,
+  listModels,
+} from '../domain/models';
 import { addPhoto, maxPhotoBytes, readPhoto, removePhoto } from '../domain/photos';
 import {
   addMaintenanceHold,
+  assertUnitChangeable,
   changeUnit,
   createUnit,
   getUnit,
@@ -236,6 +243,7 @@ export function modelRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): Api
       summary: 'Change a model (replaces packing list and compatibility)',
       access: fleetManagers,
       params: modelParams,
+      scope: (req, params) => assertModelChangeable(deps, currentAuth(req), params.id),
       body: modelInput,
       responses: {
         200: { description: 'Changed.', schema: modelResponse },
@@ -258,6 +266,8 @@ export function modelRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): Api
         'outside the web root.',
       access: fleetManagers,
       params: modelParams,
+      // Before the upload is read: another lender's fleet manager sends no bytes to disk.
+      scope: (req, params) => assertModelChangeable(deps, currentAuth(req), params.id),
       before: [photoUpload()],
       responses: {
         201: { description: 'Stored.', schema: photoResponse },
@@ -387,6 +397,7 @@ export function unitRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): ApiR
         'their holds.',
       access: fleetManagers,
       params: unitParams,
+      scope: (req, params) => assertUnitChangeable(deps, currentAuth(req), params.id, 'fleet'),
       body: unitUpdate,
       responses: {
         200: { description: 'Changed.', schema: unitResponse },
@@ -423,6 +434,7 @@ export function unitRoutes(deps: CatalogDeps, catalogue: CatalogueEntry[]): ApiR
       summary: 'Block a unit for maintenance',
       access: lenderStaff,
       params: unitParams,
+      scope: (req, params) => assertUnitChangeable(deps, currentAuth(req), params.id, 'lender'),
       body: maintenanceHoldInput,
       responses: {
         201: { description: 'Blocked.', schema: holdResponse },

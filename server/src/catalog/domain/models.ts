@@ -277,3 +277,16 @@ export async function changeModel(
   });
   return getModel(deps, auth, modelId);
 }
+
+/**
+ * The scope check of the routes that change a model (`PUT /api/models/:id`, its photos): 404 for
+ * an unknown model, 403 for another lender's, before the body or upload is read. The use case
+ * checks again under its lock.
+ */
+export async function assertModelChangeable(
+  deps: CatalogDeps,
+  auth: AuthContext,
+  modelId: number,
+): Promise<void> {
+  await modelForChange(deps.dataSource.manager, auth, modelId, false);
+}

@@ -253,6 +253,31 @@ export async function unitHolds(
   return holds.map((h) => holdAsSeenBy(h, viewer));
 }
 
+/**
+ * The scope check of `PUT /api/units/:id` (`who: 'fleet'`) and `POST /api/units/:id/holds`
+ * (`who: 'lender'`): 404 for an unknown unit, 403 for another lender's, before the body is
+ * validated. The use case checks again under its lock.
+ */
+export async function assertUnitChangeable(
+  deps: CatalogDeps,
+  auth: AuthContext,
+  unitId: number,
+  who: 'fleet' | 'lender',
+): Promise<void> {
+  const unit = await unitDetails(deps.dataSource.manager, unitId);
+  if (!unit) throw AppError.notFound('unit_not_found', 'There is no such unit.');
+  const allowed =
+    who === 'fleet' ? isFleetManagerOf(auth, unit.lenderId) : worksForLender(auth, unit.lenderId);
+  if (!allowed) {
+    throw AppError.forbidden(
+      'forbidden',
+      who === 'fleet'
+        ? 'Only fleet managers of the unit’s lender change it.'
+        : 'Only the unit’s lender can change its maintenance.',
+    );
+  }
+}
+
 /** Locks a unit for a change to its holds by its lender's people; 404 / 403 otherwise. */
 async function lockUnitForHolds(m: EntityManager, auth: AuthContext, unitId: number) {
   const [locked] = await lockUnits(m, [unitId]);

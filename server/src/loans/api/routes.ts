@@ -13,7 +13,7 @@ import { currentAuth } from '../../http/access';
 import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import { requestLoan } from '../domain/booking';
 import type { LoanDeps } from '../domain/deps';
-import { getLoan, listLoans } from '../domain/queries';
+import { assertLoanVisible, getLoan, listLoans } from '../domain/queries';
 import { transitionLoan } from '../domain/transitions';
 
 const error = (description: string) => ({ description, schema: errorBody });
@@ -115,6 +115,8 @@ export function loanRoutes(deps: LoanDeps, catalogue: CatalogueEntry[]): ApiRout
       summary: 'Approve a requested loan (fleet manager of the lender)',
       access: { roles: ['fleet_manager'] },
       params: loanParams,
+      scope: (req, params) =>
+        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: approveBody,
       responses: transitionResponses,
     },
@@ -137,6 +139,8 @@ export function loanRoutes(deps: LoanDeps, catalogue: CatalogueEntry[]): ApiRout
       summary: 'Decline a requested loan (fleet manager of the lender); releases its holds',
       access: { roles: ['fleet_manager'] },
       params: loanParams,
+      scope: (req, params) =>
+        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: reasonRequest,
       responses: { ...transitionResponses, 422: error('A reason is required.') },
     },
@@ -153,6 +157,8 @@ export function loanRoutes(deps: LoanDeps, catalogue: CatalogueEntry[]): ApiRout
       summary: 'Cancel a requested or approved loan (buyer of the hospital); releases its holds',
       access: { roles: ['buyer'] },
       params: loanParams,
+      scope: (req, params) =>
+        assertLoanVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: reasonRequest,
       responses: { ...transitionResponses, 422: error('A reason is required.') },
     },

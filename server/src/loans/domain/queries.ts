@@ -32,6 +32,22 @@ export function canSeeLoan(
   );
 }
 
+/**
+ * Refuses (404) a loan the person may not see. The scope check of every `/api/loans/:id/...`
+ * route that takes a body: it runs before the body is validated, so a stranger learns nothing
+ * from validation messages. The use case checks again under its lock.
+ */
+export async function assertLoanVisible(
+  m: EntityManager,
+  auth: AuthContext,
+  loanId: number,
+): Promise<void> {
+  const [view] = await findLoans(m, { ids: [loanId], limit: 1 });
+  if (!view || !canSeeLoan(auth, view)) {
+    throw AppError.notFound('loan_not_found', 'There is no such loan.');
+  }
+}
+
 /** Builds the API shape of a loan from its row, units and (optionally) events. */
 export function toLoan(
   auth: AuthContext,

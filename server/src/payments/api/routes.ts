@@ -186,6 +186,8 @@ export function loanPaymentRoutes(deps: PaymentsDeps, catalogue: CatalogueEntry[
         'is live. Stored outside the web root under a random name; audited.',
       access: { roles: ['buyer'] },
       params: loanParams,
+      // Before the upload is read: a stranger's file never reaches the disk or a validator.
+      scope: (req, params) => assertLoanVisible(deps, currentAuth(req), params.id),
       before: [documentUpload()],
       responses: {
         201: { description: 'Filed.', schema: loanDocumentResponse },

@@ -29,7 +29,12 @@ import { ApiRouter, type CatalogueEntry } from '../../http/routes';
 import type { ShipmentsDeps } from '../domain/deps';
 import { attestDecontamination, confirmReceipt, handOver, receiveReturn } from '../domain/handling';
 import { recordInspection, settleLoan } from '../domain/inspection';
-import { getShipment, listShipments } from '../domain/queries';
+import {
+  assertLenderOfLoan,
+  assertShipmentSide,
+  getShipment,
+  listShipments,
+} from '../domain/queries';
 import { handleTrackingEvent } from '../domain/tracking';
 import { packingSlip } from '../domain/packing-slip';
 import { addShipmentPhoto, readShipmentPhoto } from '../domain/photos';
@@ -129,6 +134,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
         '`serial_already_scanned`, `quantity_complete`. Refusals are kept in the shipment’s scans.',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       body: scanRequest,
       responses: {
         201: { description: 'Ticked.', schema: scanResponse },
@@ -158,6 +165,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'Tick a checklist line by hand (a reason is required)',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       body: manualTickRequest,
       responses: {
         200: { description: 'Ticked.', schema: shipmentResponse },
@@ -177,6 +186,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'Close the checklist: SSCC from the lender’s GS1 company prefix, state packed',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       responses: {
         200: { description: 'Packed.', schema: shipmentResponse },
         409: error('`checklist_incomplete` (details list what is left) or `gs1_prefix_missing`.'),
@@ -220,6 +231,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
         'the shipment with its tracking number.',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'by-direction'),
       body: handOverRequest,
       responses: {
         200: { description: 'Handed over.', schema: shipmentResponse },
@@ -240,6 +253,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'The hospital confirms receipt (missing items, condition notes)',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'buyer'),
       body: receiptRequest,
       responses: {
         200: { description: 'Recorded.', schema: shipmentResponse },
@@ -263,6 +278,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
         'sterile-processing policy; Evalon records the attestation.',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'buyer'),
       body: decontaminationRequest,
       responses: {
         200: { description: 'Recorded.', schema: shipmentResponse },
@@ -335,6 +352,8 @@ export function shipmentRoutes(deps: ShipmentsDeps, catalogue: CatalogueEntry[])
       summary: 'The depot receives a return (missing items listed)',
       access: { authenticated: true },
       params: shipmentParams,
+      scope: (req, params) =>
+        assertShipmentSide(deps.dataSource.manager, currentAuth(req), params.id, 'lender'),
       responses: {
         200: { description: 'Received.', schema: receiveAnswer },
         409: error('Not a return on its way back.'),
@@ -419,6 +438,8 @@ export function loanInspectionRoutes(deps: ShipmentsDeps, catalogue: CatalogueEn
       summary: 'Record the return inspection (findings, charges, repairs)',
       access: { authenticated: true },
       params: loanParams,
+      scope: (req, params) =>
+        assertLenderOfLoan(deps.dataSource.manager, currentAuth(req), params.id),
       body: inspectionRequest,
       responses: {
         204: { description: 'Recorded.' },
@@ -442,6 +463,8 @@ export function loanInspectionRoutes(deps: ShipmentsDeps, catalogue: CatalogueEn
         'answers the same settlement; while one runs, 409 `settlement_in_progress`.',
       access: { authenticated: true },
       params: loanParams,
+      scope: (req, params) =>
+        assertLenderOfLoan(deps.dataSource.manager, currentAuth(req), params.id),
       responses: {
         200: { description: 'Settled.', schema: settlementResponse },
         409: error('`not_inspected` or `settlement_in_progress`.'),

@@ -10,10 +10,10 @@ import type { EntityManager } from 'typeorm';
 import { AppError } from '../../errors';
 import type { AuthContext } from '../../identity';
 import { hospitalsOf, lendersOf } from '../../catalog';
-import { findEvents, findItems, findScans } from '../data-access/shipment-repository';
+import { findEvents, findItems, findScans, findShipment } from '../data-access/shipment-repository';
 import { findPhotos } from '../data-access/photo-repository';
 import { toShipmentPhoto } from './photos';
-import { rolesOn } from './access';
+import { requireSide, rolesOn } from './access';
 import { isUnderway } from './states';
 
 type Sql = Record<string, unknown>;
@@ -259,4 +259,51 @@ export async function getShipment(
     decontamination,
     actions,
   };
+}
+
+/**
+ * The scope check of the `/api/shipments/:id/...` routes that change a shipment, run before the
+ * body is validated: 404 when the person may not see the shipment, 403 when the step belongs to
+ * the other side (`by-direction`: the lender hands over outbound legs, the hospital returns).
+ * The use case checks again under its lock.
+ */
+export async function assertShipmentSide(
+  m: EntityManager,
+  auth: AuthContext,
+  shipmentId: number,
+  side: 'lender' | 'buyer' | 'by-direction',
+): Promise<void> {
+  const s = await findShipment(m, shipmentId);
+  if (!s) throw AppError.notFound('shipment_not_found', 'There is no such shipment.');
+  requireSide(
+    auth,
+    s,
+    side === 'by-direction' ? (s.direction === 'outbound' ? 'lender' : 'buyer') : side,
+  );
+}
+
+/**
+ * The scope check of `/api/loans/:id/inspection` and `/settle`: 404 for a loan the person may
+ * not see, 403 for anyone but the lender's people, before the body is validated.
+ */
+export async function assertLenderOfLoan(
+  m: EntityManager,
+  auth: AuthContext,
+  loanId: number,
+): Promise<void> {
+  const [row]: Sql[] = await m.query('SELECT lender_id, hospital_id FROM loans WHERE id = ?', [
+    loanId,
+  ]);
+  const loan = row
+    ? { lenderId: Number(row.lender_id), hospitalId: Number(row.hospital_id) }
+    : null;
+  if (!loan || !rolesOn(auth, loan).sees) {
+    throw AppError.notFound('loan_not_found', 'There is no such loan.');
+  }
+  if (!rolesOn(auth, loan).lender) {
+    throw AppError.forbidden(
+      'forbidden',
+      'Only the lender’s coordinators and fleet managers can do this.',
+    );
+  }
 }

@@ -32,7 +32,7 @@ import {
   requestVisit,
   withdrawFromVisit,
 } from '../domain/offers';
-import { getVisit, listVisits } from '../domain/queries';
+import { assertVisitVisible, getVisit, listVisits } from '../domain/queries';
 import { trainingRecordOf } from '../domain/training';
 import {
   checkHospitalManager,
@@ -279,6 +279,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
       summary: 'Accept the visit offered to you (every hard constraint is checked again)',
       access: { roles: ['proctor'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       responses: answers,
     },
     async ({ req, res, params }) => {
@@ -293,6 +295,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
       summary: 'Decline the visit offered to you, with a reason; the next candidate is offered',
       access: { roles: ['proctor'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: declineOfferRequest,
       responses: { ...answers, 422: error('A reason is required.') },
     },
@@ -312,6 +316,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
         'From the first visit day (campus time zone) on it is refused with 409 `visit_started`.',
       access: { roles: ['proctor'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: withdrawVisitRequest,
       responses: {
         200: {
@@ -336,6 +342,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
       summary: 'Cancel a visit (hospital); an accepted proctor gets a calendar cancellation',
       access: { roles: ['buyer', 'clinician'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: reasonRequest,
       responses: {
         200: { description: 'Cancelled.', schema: visitResponse },
@@ -357,6 +365,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
       summary: 'Widen the search of an unfilled visit: more candidates, offered in turn',
       access: { roles: ['buyer', 'clinician'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: reopenBody,
       responses: {
         200: { description: 'Offered again.', schema: visitResponse },
@@ -381,6 +391,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
         '“patient”, record-like numbers, dates of birth.',
       access: { roles: ['proctor'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: caseRecordInput,
       responses: {
         201: { description: 'Recorded.', schema: visitResponse },
@@ -404,6 +416,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
       summary: 'Mark the visit done (the visit’s proctor); its cases add to your experience',
       access: { roles: ['proctor'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       responses: {
         200: { description: 'Completed.', schema: visitResponse },
         403: error('Not the visit’s proctor.'),
@@ -426,6 +440,8 @@ export function visitRoutes(deps: VisitDeps, catalogue: CatalogueEntry[]): ApiRo
         'privileging remains the hospital’s decision.',
       access: { roles: ['proctor'] },
       params: visitParams,
+      scope: (req, params) =>
+        assertVisitVisible(deps.dataSource.manager, currentAuth(req), params.id),
       body: signOffInput,
       responses: {
         201: { description: 'Signed off.', schema: visitResponse },

@@ -80,6 +80,23 @@ export function canSeeVisit(
   return offers.some((o) => o.proctorUserId === auth.user.id && o.state !== 'queued');
 }
 
+/**
+ * Refuses (404) a visit the person may not see: the scope check of the `/api/visits/:id/...`
+ * routes that take a body, run before the body is validated. The use case checks again (and the
+ * person's part in the visit) under its lock.
+ */
+export async function assertVisitVisible(
+  m: EntityManager,
+  auth: AuthContext,
+  visitId: number,
+): Promise<void> {
+  const view = await findVisitView(m, visitId);
+  const offers = view ? await findOffers(m, visitId) : [];
+  if (!view || !canSeeVisit(auth, view, offers)) {
+    throw AppError.notFound('visit_not_found', 'There is no such visit.');
+  }
+}
+
 /** One visit with offers, events, cases and sign-offs; 404 when missing or not the person's. */
 export async function getVisit(
   m: EntityManager,
