@@ -55,6 +55,7 @@ export const appTables = [
   'payments',
   'credit_agreements',
   'notifications',
+  'notice_jobs',
   'outbox_messages',
   'loan_events',
   'holds',
