@@ -68,6 +68,7 @@ export const appTables = [
   'models',
   'lender_settings',
   'sessions',
+  'rate_limits',
   'audit_events',
   'user_tokens',
   'memberships',
