@@ -27,6 +27,12 @@ export interface AppServices {
   documentStore: FileStore;
   /** The loan notification port's implementation (the outbox's loan notifier). */
   notifyLoanEvent: NotifyLoanEvent;
+  /**
+   * The same port for a loan confirmed by a payment: the state change (and its shipments) in
+   * the caller's transaction, the e-mails, invites and in-app notifications rendered afterwards
+   * by the outbox worker (`notice_jobs`), so the webhook's transaction stays short.
+   */
+  notifyLoanEventDeferred: NotifyLoanEvent;
   /** The visit notification port's implementation (the outbox's visit notifier). */
   notifyVisitEvent: NotifyVisitEvent;
   /** Where proctors' credential PDFs live. */

@@ -18,7 +18,12 @@ import { mountWebApp } from './http/web-app';
 import type { NotifyLoanEvent } from './loans';
 import type { Logger } from './logger';
 import { mapsOptionsFromConfig, type MapsOptions } from './maps';
-import { loanNotifierFromConfig, visitNotifierFromConfig, type Mailer } from './notifications';
+import {
+  deferredLoanNotifier,
+  loanNotifierFromConfig,
+  visitNotifierFromConfig,
+  type Mailer,
+} from './notifications';
 import { createPaymentsClient, LocalDocumentStore, type PaymentsClient } from './payments';
 import type { FileStore } from './storage/file-store';
 import type { NotifyVisitEvent } from './visits';
@@ -109,6 +114,12 @@ export function createApp(deps: AppDeps): Express {
     // A confirmation also creates the loan's outbound shipments, in the same transaction.
     notifyLoanEvent: withShipmentCreation(
       deps.notifyLoanEvent ?? loanNotifierFromConfig(config, { now }),
+      now,
+    ),
+    // A notifier a test passed in is called as it is (it watches the calls); by default the
+    // payment confirmations leave their rendering to the outbox worker.
+    notifyLoanEventDeferred: withShipmentCreation(
+      deps.notifyLoanEvent ?? deferredLoanNotifier(now),
       now,
     ),
     notifyVisitEvent: deps.notifyVisitEvent ?? visitNotifierFromConfig(config, { now }),

@@ -36,6 +36,7 @@ import {
 } from './helpers/payments';
 import { createPaymentsDeps, runDepositExpiry, settleDeposit } from '../src/payments';
 import { createLogger } from '../src/logger';
+import { loanNotifierFromConfig, renderDueNotices } from '../src/notifications';
 
 jest.setTimeout(60_000);
 
@@ -64,6 +65,17 @@ const paymentsDeps = () =>
     config: t.config,
     dataSource: t.dataSource,
     logger: createLogger('silent'),
+  });
+
+/** What the server's outbox worker does first on each pass: render the deferred notices. */
+const renderNotices = () =>
+  renderDueNotices(t.dataSource, {
+    renderLoan: loanNotifierFromConfig(t.config),
+    now: () => new Date(),
+    logger: createLogger('silent'),
+    batchSize: 100,
+    maxAttempts: 3,
+    backoff: { baseMs: 1000, capMs: 60_000 },
   });
 
 const sign = (person: { email: string; password: string }) =>
@@ -179,6 +191,21 @@ describe('card deposit, end to end through the SDK and the fake', () => {
       status: 'succeeded',
       amount_received: loan.deposit,
     });
+
+    // A payment's confirmation renders its e-mails after the commit (the outbox worker's job,
+    // off in this suite): none yet, one job waiting; rendered here as the worker would.
+    expect(
+      await countRows(t.dataSource, 'outbox_messages', 'dedupe_key LIKE ?', [
+        `loan:${loan.id}:confirmed:user:%`,
+      ]),
+    ).toBe(0);
+    expect(
+      await countRows(t.dataSource, 'notice_jobs', 'dedupe_key = ?', [`loan:${loan.id}:confirmed`]),
+    ).toBe(1);
+    await renderNotices();
+    expect(
+      await countRows(t.dataSource, 'notice_jobs', 'dedupe_key = ?', [`loan:${loan.id}:confirmed`]),
+    ).toBe(0);
 
     // Confirmation e-mails for buyer, clinician and coordinator, each with the calendar invite.
     const mails: { to: unknown; attachments: unknown }[] = await t.dataSource.query(

@@ -3,8 +3,8 @@
 // provider sends them, signed with the SDK's own helper) are fired at once at the server (a child
 // process, `node --import tsx server/src/main.ts`, on a dedicated database). Each one goes the
 // whole way: signature check, event id recorded, loan and payment rows locked, loan confirmed,
-// confirmation e-mails rendered with the calendar invite and put in the outbox, in-app
-// notifications, commit. Prints p50, p97.5 (nearest rank) and max, and checks that 50 loans were
+// its shipments created, the notice job recorded (the outbox worker renders the e-mails, the
+// calendar invite and the in-app notifications after the commit; it is off here), commit. Prints p50, p97.5 (nearest rank) and max, and checks that 50 loans were
 // confirmed. A script, not a timed test: it prints what one run measured.
 import mysql from 'mysql2/promise';
 import PaymentsSdk from 'stripe';
@@ -17,6 +17,8 @@ import { freePort, startNode } from '../../server/test/helpers/processes';
 
 const DELIVERIES = Number(process.env.BENCH_WEBHOOKS ?? 50);
 const database = process.env.EVALON_BENCH_DB_NAME ?? 'evalon_test_bench_webhooks';
+
+const serverNodeArgs = (process.env.BENCH_SERVER_NODE_ARGS ?? '').split(/\s+/).filter(Boolean);
 
 const say = (msg: string) => process.stdout.write(`[bench] ${msg}\n`);
 
@@ -104,7 +106,8 @@ async function main(): Promise<void> {
   const port = await freePort();
   say('starting the server (node --import tsx server/src/main.ts)');
   const server = await startNode(
-    ['--import', 'tsx', 'server/src/main.ts'],
+    // BENCH_SERVER_NODE_ARGS, e.g. `--cpu-prof --cpu-prof-dir=/tmp/prof`, to profile the server.
+    [...serverNodeArgs, '--import', 'tsx', 'server/src/main.ts'],
     {
       NODE_ENV: 'test',
       EVALON_PORT: String(port),

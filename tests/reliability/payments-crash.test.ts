@@ -24,8 +24,9 @@ import { freePort, startNode, type Started } from '../../server/test/helpers/pro
 // catcher), the payments fake as a child process re-delivering what was not acknowledged, and a
 // database of this suite's own. After the restart on the same port the fake's re-deliveries go
 // through. Invariants, checked right after the kill and at the end: no loan confirmed without
-// its payment row and its outbox e-mails (they commit together or not at all); one confirmation
-// per loan; in the end every loan confirmed and the outbox drained (every e-mail sent once).
+// its payment row and either its outbox e-mails or the notice job the outbox worker renders them
+// from (the job commits with the confirmation or not at all); one confirmation per loan; in the
+// end every loan confirmed, no job left and the outbox drained (every e-mail sent once).
 
 jest.setTimeout(300_000);
 
@@ -100,15 +101,21 @@ async function waitUntil(what: string, check: () => Promise<boolean>, timeoutMs:
 const count = async (sql: string, params: unknown[] = []) =>
   Number((await dataSource.query(sql, params))[0].n);
 
-/** Loans confirmed without their securing payment row or without their confirmation e-mails. */
+/**
+ * Loans confirmed without their securing payment row, or with neither their confirmation
+ * e-mails nor the pending notice job that renders them.
+ */
 async function brokenConfirmations(loanIds: number[]): Promise<number> {
   return count(
     `SELECT COUNT(*) AS n FROM loans l
       WHERE l.id IN (?) AND l.state = 'confirmed'
         AND (NOT EXISTS (SELECT 1 FROM payments p WHERE p.loan_id = l.id AND p.secures_loan = 1
                            AND p.status IN ('authorised', 'captured'))
-             OR (SELECT COUNT(*) FROM outbox_messages o
-                  WHERE o.dedupe_key LIKE CONCAT('loan:', l.id, ':confirmed:user:%')) < 3)`,
+             OR ((SELECT COUNT(*) FROM outbox_messages o
+                   WHERE o.dedupe_key LIKE CONCAT('loan:', l.id, ':confirmed:user:%')) < 3
+                 AND NOT EXISTS (SELECT 1 FROM notice_jobs j
+                   WHERE j.dedupe_key = CONCAT('loan:', l.id, ':confirmed')
+                     AND j.status = 'pending')))`,
     [loanIds],
   );
 }
@@ -222,6 +229,7 @@ it('loses no confirmation and no e-mail when the server is killed mid-way throug
   await waitUntil(
     'the outbox drained',
     async () =>
+      (await count('SELECT COUNT(*) AS n FROM notice_jobs')) === 0 &&
       (await count(
         `SELECT COUNT(*) AS n FROM outbox_messages WHERE status <> 'sent' AND dedupe_key LIKE 'loan:%:confirmed:%'`,
       )) === 0,
@@ -259,7 +267,7 @@ it('loses no confirmation and no e-mail when the server is killed mid-way throug
   ).length;
   process.stdout.write(
     `payments crash: ${confirmedAtKill}/${loanCount} confirmed when SIGKILL landed ` +
-      `(${brokenAtKill} confirmed without payment row or e-mails); ${refusedWhileDown} delivery ` +
+      `(${brokenAtKill} confirmed without payment row or e-mails or notice job); ${refusedWhileDown} delivery ` +
       `attempts refused while down; after restart ${confirmedAtEnd}/${loanCount} confirmed, ` +
       `${confirmationEvents} confirmation events, ${securing} securing payment rows, ` +
       `${paidIntents} paid intents at the provider, ${duplicates} later events found the loan ` +

@@ -1,5 +1,7 @@
 import type { Request, RequestHandler } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { rateLimit, type ClientRateLimitInfo, type Options, type Store } from 'express-rate-limit';
+import { RateLimiterMySQL } from 'rate-limiter-flexible';
+import type { DataSource } from 'typeorm';
 import type { Config } from '../config';
 import { AppError } from '../errors';
 
@@ -21,11 +23,78 @@ function tooMany(windowMs: number): RequestHandler {
 }
 
 /**
- * Sign-in limits: failed attempts per client address and per account (e-mail). Successful
- * sign-ins are taken back off the count. Counters live in this process; several server
- * processes would need a shared store (e.g. in MariaDB) to keep the same limits.
+ * An express-rate-limit store whose counters live in MariaDB's `rate_limits` table through
+ * rate-limiter-flexible's MySQL store, on the app's own connection pool: every server process
+ * sees the same counts. rate-limiter-flexible keeps the counting atomic (an upsert per hit) and
+ * the window (a key's count starts again once its `expire` has passed).
  */
-export function signInLimiters(limits: Config['loginLimits']): RequestHandler[] {
+export class MariaDbLimitStore implements Store {
+  /** Counts are shared between processes, not kept in this one. */
+  readonly localKeys = false;
+  private limiter: RateLimiterMySQL | null = null;
+
+  constructor(
+    private readonly dataSource: DataSource,
+    /** Distinguishes the counters of one limiter from another's in the shared table. */
+    readonly prefix: string,
+  ) {}
+
+  init(options: Options): void {
+    // TypeORM's MySQL driver keeps mysql2's callback pool, which is what the store expects.
+    const pool = (this.dataSource.driver as unknown as { pool: unknown }).pool;
+    this.limiter = new RateLimiterMySQL({
+      storeClient: pool,
+      storeType: 'pool',
+      dbName: this.dataSource.options.database as string,
+      tableName: 'rate_limits',
+      // Made by a migration; the store would otherwise try to create it.
+      tableCreated: true,
+      // No timer per limiter: an expired row is overwritten by the next hit on its key.
+      clearExpiredByTimeout: false,
+      keyPrefix: this.prefix,
+      // express-rate-limit compares the count with its limit; this store only counts.
+      points: 2_000_000_000,
+      duration: Math.max(1, Math.ceil(options.windowMs / 1000)),
+    });
+  }
+
+  private get store(): RateLimiterMySQL {
+    if (!this.limiter) throw new Error('MariaDbLimitStore used before init');
+    return this.limiter;
+  }
+
+  async get(key: string): Promise<ClientRateLimitInfo | undefined> {
+    const res = await this.store.get(key);
+    if (!res) return undefined;
+    return { totalHits: res.consumedPoints, resetTime: new Date(Date.now() + res.msBeforeNext) };
+  }
+
+  async increment(key: string): Promise<ClientRateLimitInfo> {
+    const res = await this.store.consume(key, 1);
+    return { totalHits: res.consumedPoints, resetTime: new Date(Date.now() + res.msBeforeNext) };
+  }
+
+  async decrement(key: string): Promise<void> {
+    await this.store.reward(key, 1);
+  }
+
+  async resetKey(key: string): Promise<void> {
+    await this.store.delete(key);
+  }
+}
+
+/**
+ * Sign-in limits: failed attempts per client address and per account (e-mail). Successful
+ * sign-ins are taken back off the count. With a data source the counters are kept in MariaDB
+ * ({@link MariaDbLimitStore}), so several server processes keep one limit; without one, in
+ * this process.
+ */
+export function signInLimiters(
+  limits: Config['loginLimits'],
+  dataSource?: DataSource,
+): RequestHandler[] {
+  const store = (prefix: string) =>
+    dataSource ? { store: new MariaDbLimitStore(dataSource, prefix) } : {};
   const common = {
     windowMs: limits.windowMs,
     skipSuccessfulRequests: true,
@@ -33,9 +102,10 @@ export function signInLimiters(limits: Config['loginLimits']): RequestHandler[] 
     legacyHeaders: false,
     handler: tooMany(limits.windowMs),
   };
-  const perIp = rateLimit({ ...common, limit: limits.maxFailuresPerIp });
+  const perIp = rateLimit({ ...common, ...store('signin-ip'), limit: limits.maxFailuresPerIp });
   const perAccount = rateLimit({
     ...common,
+    ...store('signin-account'),
     limit: limits.maxFailuresPerAccount,
     keyGenerator: (req: Request) => {
       const email: unknown = (req.body as { email?: unknown } | undefined)?.email;

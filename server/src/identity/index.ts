@@ -1,5 +1,6 @@
 // The identity component's front door: other components and the app use only what is exported
 // here.
+import { RateLimits1765400060000 } from '../database/migrations/1765400060000-rate-limits';
 import type { AppComponent } from '../app-services';
 import { Identity1764633600000 } from '../database/migrations/1764633600000-identity';
 import { UserAuthVersion1765300000000 } from '../database/migrations/1765300000000-user-auth-version';
@@ -93,7 +94,12 @@ export function sessionUserLoader(dataSource: DataSource) {
 export const identityComponent: AppComponent = {
   name: 'identity',
   entities: [UserEntity, MembershipEntity, UserTokenEntity],
-  migrations: [Identity1764633600000, UserAuthVersion1765300000000, UsersUpdatedIndex1765300030000],
+  migrations: [
+    Identity1764633600000,
+    UserAuthVersion1765300000000,
+    UsersUpdatedIndex1765300030000,
+    RateLimits1765400060000,
+  ],
   routers: (ctx) => {
     const deps: IdentityDeps = {
       dataSource: ctx.dataSource,

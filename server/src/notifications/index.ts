@@ -3,9 +3,11 @@
 import type { AppComponent } from '../app-services';
 import { OutboxNotifications1764806400000 } from '../database/migrations/1764806400000-outbox-notifications';
 import { adminOutboxRoutes, notificationRoutes } from './api/routes';
-import { NotificationEntity, OutboxMessageEntity } from './data-access/entities';
+import { NoticeJobEntity, NotificationEntity, OutboxMessageEntity } from './data-access/entities';
+import { NoticeJobs1765400000000 } from '../database/migrations/1765400000000-notice-jobs';
 import { OutboxCommitSubscriber } from './domain/outbox';
 import { createOutboxWorker } from './domain/outbox-worker';
+import { loanNotifierFromConfig } from './domain/loan-notifications';
 
 export { loanNotifierFromConfig } from './domain/loan-notifications';
 export {
@@ -21,13 +23,14 @@ export {
 } from './domain/visit-notifications';
 export { SmtpMailer, type Mailer } from './domain/mailer';
 export { enqueueEmail } from './domain/outbox';
+export { deferredLoanNotifier, renderDueNotices } from './domain/notice-jobs';
 export { createOutboxWorker } from './domain/outbox-worker';
 
 /** E-mail through the outbox, in-app notifications and the outbox admin page. */
 export const notificationsComponent: AppComponent = {
   name: 'notifications',
-  entities: [OutboxMessageEntity, NotificationEntity],
-  migrations: [OutboxNotifications1764806400000],
+  entities: [OutboxMessageEntity, NotificationEntity, NoticeJobEntity],
+  migrations: [OutboxNotifications1764806400000, NoticeJobs1765400000000],
   subscribers: [OutboxCommitSubscriber],
   routers: (ctx) => [
     adminOutboxRoutes(ctx.dataSource, ctx.now, ctx.catalogue),
@@ -40,6 +43,8 @@ export const notificationsComponent: AppComponent = {
       dataSource: ctx.dataSource,
       mailer: ctx.mailer,
       logger: ctx.logger,
+      // Renders the notices that confirmations deferred (payments), then sends.
+      renderLoan: loanNotifierFromConfig(ctx.config),
     });
     return [
       {

@@ -32,6 +32,7 @@ export function createPaymentsDeps(input: {
   provider?: PaymentsClient;
   documentStore?: FileStore;
   notifyLoanEvent?: NotifyLoanEvent;
+  notifyLoanEventDeferred?: NotifyLoanEvent;
 }): PaymentsDeps {
   const now = input.now ?? (() => new Date());
   return {
@@ -41,6 +42,9 @@ export function createPaymentsDeps(input: {
     config: input.config.payments,
     publicUrl: input.config.http.publicUrl,
     notifyLoanEvent: input.notifyLoanEvent ?? loanNotifierFromConfig(input.config, { now }),
+    ...(input.notifyLoanEventDeferred
+      ? { notifyLoanEventDeferred: input.notifyLoanEventDeferred }
+      : {}),
     documentStore: input.documentStore ?? new LocalDocumentStore(input.config.storage.documentDir),
     now,
   };
@@ -62,6 +66,7 @@ export function paymentsDepsOf(
       provider: ctx.services.paymentsClient,
       documentStore: ctx.services.documentStore,
       notifyLoanEvent: ctx.services.notifyLoanEvent,
+      notifyLoanEventDeferred: ctx.services.notifyLoanEventDeferred,
     });
     depsOfApp.set(ctx.services, deps);
   }

@@ -9,6 +9,7 @@ import {
   createOutboxWorker,
   type OutboxWorker,
 } from '../../src/notifications/domain/outbox-worker';
+import { loanNotifierFromConfig } from '../../src/notifications';
 import { RecordingMailer } from './recording-mailer';
 
 /** An app on this worker's database, with the pieces a test needs to look behind it. */
@@ -52,7 +53,8 @@ export async function startTestApp(
       ? null
       : createOutboxWorker(
           { ...config, outbox: { ...config.outbox, pollIntervalMs: 50 } },
-          { dataSource, mailer, logger },
+          // Renders the notices payment confirmations deferred, as the server's worker does.
+          { dataSource, mailer, logger, renderLoan: loanNotifierFromConfig(config) },
         );
   worker?.start();
   return {

@@ -74,7 +74,7 @@ export function authRoutes(
       summary: 'Sign in with e-mail and password',
       access: { public: true },
       body: loginRequest,
-      before: signInLimiters(config.loginLimits),
+      before: signInLimiters(config.loginLimits, deps.dataSource),
       responses: {
         200: {
           description: 'Signed in; a new session cookie and XSRF-TOKEN are set.',

@@ -115,3 +115,39 @@ export const NotificationEntity = new EntitySchema<NotificationRow>({
     },
   ],
 });
+
+/** A row of `notice_jobs`: a business event whose messages the outbox worker renders later. */
+export interface NoticeJobRow {
+  id: number;
+  kind: 'loan';
+  /** What the renderer needs (for `loan`: the loans component's notice). */
+  payload: Record<string, unknown>;
+  /** `parked` after the renderer failed `maxAttempts` times; an admin looks at it. */
+  status: 'pending' | 'parked';
+  attempts: number;
+  nextAttemptAt: Date;
+  lastError: string | null;
+  createdAt: Date;
+  /** e.g. `loan:42:confirmed`: the same event deferred twice is one job. */
+  dedupeKey: string;
+}
+
+export const NoticeJobEntity = new EntitySchema<NoticeJobRow>({
+  name: 'NoticeJob',
+  tableName: 'notice_jobs',
+  columns: {
+    id: idColumn,
+    kind: { type: 'varchar', length: 16 },
+    payload: { type: 'json' },
+    status: { type: 'varchar', length: 16, default: 'pending' },
+    attempts: { type: 'smallint', unsigned: true, default: 0 },
+    nextAttemptAt: instantColumn('next_attempt_at'),
+    lastError: { type: 'varchar', length: 2000, name: 'last_error', nullable: true },
+    createdAt: instantColumn('created_at'),
+    dedupeKey: { type: 'varchar', length: 190, name: 'dedupe_key' },
+  },
+  indices: [
+    { name: 'ix_notice_jobs_due', columns: ['status', 'nextAttemptAt', 'id'] },
+    { name: 'uq_notice_jobs_dedupe_key', columns: ['dedupeKey'], unique: true },
+  ],
+});

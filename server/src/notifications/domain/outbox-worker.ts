@@ -7,6 +7,8 @@ import { retryDelayMs } from './backoff';
 import { claimDue, markFailed, markSent, releaseClaimed } from '../data-access/outbox-repository';
 import type { OutboxMessageRow } from '../data-access/entities';
 import type { MailMessage, Mailer } from './mailer';
+import type { NotifyLoanEvent } from '../../loans';
+import { renderDueNotices } from './notice-jobs';
 import { onOutboxEnqueued } from './outbox';
 
 /** What a worker needs. */
@@ -24,6 +26,11 @@ export interface OutboxWorkerOptions {
   now?: () => Date;
   /** Jitter source in [0, 1). */
   random?: () => number;
+  /**
+   * Renders deferred loan notices (`notice_jobs`) into e-mails and notifications before each
+   * pass; without it the worker only sends.
+   */
+  renderLoan?: NotifyLoanEvent;
 }
 
 /** What one pass over the outbox did. */
@@ -174,7 +181,19 @@ export class OutboxWorker {
    * loop calls it after every poll or nudge.
    */
   async drainOnce(): Promise<DrainResult> {
-    const { dataSource, settings, logger } = this.options;
+    const { dataSource, settings, logger, renderLoan } = this.options;
+    // Deferred notices first: what they render is enqueued (and nudges this worker) at once.
+    if (renderLoan && !this.stopping) {
+      await renderDueNotices(dataSource, {
+        renderLoan,
+        now: this.now,
+        logger,
+        batchSize: settings.batchSize,
+        maxAttempts: settings.maxAttempts,
+        backoff: { baseMs: settings.backoffBaseMs, capMs: settings.backoffCapMs },
+        random: this.random,
+      });
+    }
     const claim = await claimDue(dataSource, {
       workerId: this.id,
       now: this.now(),
@@ -280,7 +299,10 @@ export class OutboxWorker {
 /** Builds a worker from the server configuration. */
 export function createOutboxWorker(
   config: Pick<Config, 'outbox' | 'smtp'>,
-  deps: Pick<OutboxWorkerOptions, 'dataSource' | 'mailer' | 'logger' | 'now' | 'workerId'>,
+  deps: Pick<
+    OutboxWorkerOptions,
+    'dataSource' | 'mailer' | 'logger' | 'now' | 'workerId' | 'renderLoan'
+  >,
 ): OutboxWorker {
   return new OutboxWorker({
     ...deps,

@@ -205,7 +205,8 @@ export async function applyPaymentFacts(
     const covers = held >= loan.depositAmount && current.currency === loan.depositCurrency;
     if (loan.state === 'approved' && covers) {
       await updatePayment(m, row.id, { securesLoan: true }, now);
-      await confirmLoan(m, deps, loan, {
+      const notifyLoanEvent = deps.notifyLoanEventDeferred ?? deps.notifyLoanEvent;
+      await confirmLoan(m, { ...deps, notifyLoanEvent }, loan, {
         strategy: strategyOf(current.kind),
         purchaseOrderNumber: null,
         actorUserId: null,

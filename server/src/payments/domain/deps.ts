@@ -19,6 +19,13 @@ export interface PaymentsDeps {
    * notifications component's entry point, which knows `confirmed` and `expired`).
    */
   notifyLoanEvent: NotifyLoanEvent;
+  /**
+   * Used instead of `notifyLoanEvent` when a payment confirms a loan (webhook, return from the
+   * hosted page, expiry job): it records the notice in the transaction and the outbox worker
+   * renders the e-mails and invite afterwards, so the loan's row lock is held briefly. Absent:
+   * `notifyLoanEvent` renders in the transaction.
+   */
+  notifyLoanEventDeferred?: NotifyLoanEvent;
   /** Where loan documents live: the uploads storage interface, with PDF keys. */
   documentStore: FileStore;
   now: () => Date;
