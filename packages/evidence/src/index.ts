@@ -6,3 +6,5 @@ export * from './outcomes';
 export * from './procedures';
 export * from './deidentify';
 export * from './metrics';
+export * from './report-charts';
+export * from './csv-guard';
