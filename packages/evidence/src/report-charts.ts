@@ -115,7 +115,9 @@ export function operativeTimeChart(
     title: 'Operative time by case, with the fitted learning curve',
     option: {
       ...baseOption,
-      legend: { top: 8, type: 'scroll' },
+      // Room between the legend and the y-axis name above the plot.
+      grid: { ...baseOption.grid, top: 68 },
+      legend: { top: 4, type: 'scroll' },
       xAxis: {
         type: 'value',
         name: 'Clinician’s case (1st, 2nd, …)',
