@@ -8,3 +8,4 @@ export * from './deidentify';
 export * from './metrics';
 export * from './report-charts';
 export * from './csv-guard';
+export * from './utilisation';
