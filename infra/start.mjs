@@ -4,7 +4,7 @@
 // earlier run are left running for their owner).
 import { spawn } from 'node:child_process';
 import path from 'node:path';
-import { buildServer, ensureNodeModules, ensureWebBuild } from './lib/deps.mjs';
+import { buildServer, ensureNodeModules, ensurePdfRenderer, ensureWebBuild } from './lib/deps.mjs';
 import { dbConfig, startMariadb, stopMariadb } from './lib/mariadb.mjs';
 import { log, portOpen, root, run } from './lib/proc.mjs';
 import { ports, startServices, stopServices } from './lib/services.mjs';
@@ -21,6 +21,8 @@ async function shutdown(code) {
 async function main() {
   const t0 = Date.now();
   ensureNodeModules();
+  // The report's PDF checks (browser tests, support) render pages with pdftoppm.
+  ensurePdfRenderer();
   if (await portOpen(port)) {
     throw new Error(
       `Port ${port} on 127.0.0.1 is taken (is Evalon already running?). ` +
@@ -43,11 +45,15 @@ async function main() {
   run(process.execPath, [path.join(root, 'server/dist/migrate.js')], { env });
   run(process.execPath, [path.join(root, 'server/dist/demo.js')], { env });
   log(`ready to serve after ${((Date.now() - t0) / 1000).toFixed(1)} s`);
-  const server = spawn(process.execPath, ['--enable-source-maps', path.join(root, 'server/dist/main.js')], {
-    cwd: root,
-    env,
-    stdio: 'inherit',
-  });
+  const server = spawn(
+    process.execPath,
+    ['--enable-source-maps', path.join(root, 'server/dist/main.js')],
+    {
+      cwd: root,
+      env,
+      stdio: 'inherit',
+    },
+  );
   log(`Evalon: http://127.0.0.1:${port}  (inbox: http://127.0.0.1:${ports.inbox})`);
   log('demo accounts use the password evalon-demo; press Ctrl-C to stop');
   const stop = () => server.kill('SIGTERM');

@@ -7,7 +7,13 @@
 import { spawn, spawnSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
-import { buildServer, ensureChromium, ensureNodeModules, ensureWebBuild } from './lib/deps.mjs';
+import {
+  buildServer,
+  ensureChromium,
+  ensureNodeModules,
+  ensurePdfRenderer,
+  ensureWebBuild,
+} from './lib/deps.mjs';
 import { dbConfig, rootSql, startMariadb, stopMariadb } from './lib/mariadb.mjs';
 import { dataDir, log, portOpen, root, runningPid, waitForPort } from './lib/proc.mjs';
 import { ports, startServices, stopServices } from './lib/services.mjs';
@@ -27,7 +33,9 @@ function record(name, passed, failed, skipped = 0) {
   totals.passed += passed;
   totals.failed += failed;
   totals.skipped += skipped;
-  lines.push(`${name.padEnd(12)} ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`);
+  lines.push(
+    `${name.padEnd(12)} ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ''}`,
+  );
 }
 
 function step(cmd, args, opts = {}) {
@@ -51,7 +59,11 @@ async function main() {
     const lint = step(process.execPath, [bin('eslint/bin/eslint.js'), '.', '--max-warnings=0']);
     record('lint', lint.ok ? 1 : 0, lint.ok ? 0 : 1);
     // The web app is type-checked by its build; these cover the server, packages and e2e tests.
-    for (const project of ['server/tsconfig.json', 'packages/tsconfig.json', 'tests/e2e/tsconfig.json']) {
+    for (const project of [
+      'server/tsconfig.json',
+      'packages/tsconfig.json',
+      'tests/e2e/tsconfig.json',
+    ]) {
       const tsc = step(process.execPath, [bin('typescript/bin/tsc'), '-p', project]);
       record(`tsc ${project.split('/')[0]}`, tsc.ok ? 1 : 0, tsc.ok ? 0 : 1);
     }
@@ -75,7 +87,12 @@ async function main() {
       const brokenSuites = r.testResults.filter(
         (s) => s.status === 'failed' && s.assertionResults.every((a) => a.status !== 'failed'),
       ).length;
-      record('jest', r.numPassedTests, r.numFailedTests + brokenSuites, r.numPendingTests + r.numTodoTests);
+      record(
+        'jest',
+        r.numPassedTests,
+        r.numFailedTests + brokenSuites,
+        r.numPendingTests + r.numTodoTests,
+      );
     } else {
       record('jest', 0, 1);
     }
@@ -83,6 +100,7 @@ async function main() {
 
   if (wants('e2e')) {
     ensureChromium();
+    ensurePdfRenderer();
     log('building the app for the browser tests');
     let built = true;
     try {
@@ -112,14 +130,17 @@ async function registerWebhookEndpoint(url) {
       secret: process.env.EVALON_PAYMENTS_WEBHOOK_SECRET ?? 'whsec_evalon_local',
     }),
   });
-  if (!res.ok) throw new Error(`payments stand-in refused the webhook endpoint: ${await res.text()}`);
+  if (!res.ok)
+    throw new Error(`payments stand-in refused the webhook endpoint: ${await res.text()}`);
 }
 
 async function runE2e() {
   const port = Number(process.env.EVALON_E2E_PORT ?? 8180);
   if (await portOpen(port)) throw new Error(`Port ${port} is taken; set EVALON_E2E_PORT.`);
   const database = `${dbConfig.testDatabase}_e2e`;
-  rootSql(`DROP DATABASE IF EXISTS \`${database}\`; CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
+  rootSql(
+    `DROP DATABASE IF EXISTS \`${database}\`; CREATE DATABASE \`${database}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
+  );
   const env = {
     ...process.env,
     EVALON_PORT: String(port),
@@ -130,7 +151,8 @@ async function runE2e() {
     EVALON_INBOX_URL: `http://127.0.0.1:${ports.inbox}`,
   };
   const node = process.execPath;
-  if (!step(node, [path.join(root, 'server/dist/migrate.js')], { env }).ok) return record('e2e', 0, 1);
+  if (!step(node, [path.join(root, 'server/dist/migrate.js')], { env }).ok)
+    return record('e2e', 0, 1);
   if (!step(node, [path.join(root, 'server/dist/demo.js')], { env }).ok) return record('e2e', 0, 1);
   const logFile = fs.openSync(path.join(dataDir, 'logs', 'e2e-server.log'), 'w');
   const server = spawn(node, ['--enable-source-maps', path.join(root, 'server/dist/main.js')], {
@@ -148,9 +170,13 @@ async function runE2e() {
     log('browser tests (Playwright, Debian Chromium)');
     // EVALON_E2E_ARGS narrows a local run (e.g. "tests/e2e/visits.e2e.ts" or "--grep receipt").
     const extra = (process.env.EVALON_E2E_ARGS ?? '').split(' ').filter(Boolean);
-    step(node, [bin('@playwright/test/cli.js'), 'test', '-c', 'tests/e2e/playwright.config.ts', ...extra], {
-      env: { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: out },
-    });
+    step(
+      node,
+      [bin('@playwright/test/cli.js'), 'test', '-c', 'tests/e2e/playwright.config.ts', ...extra],
+      {
+        env: { ...env, PLAYWRIGHT_JSON_OUTPUT_NAME: out },
+      },
+    );
     if (fs.existsSync(out)) {
       const s = JSON.parse(fs.readFileSync(out, 'utf8')).stats;
       record('e2e', s.expected + (s.flaky ?? 0), s.unexpected, s.skipped);
@@ -173,5 +199,7 @@ try {
   if (started.mariadb) await stopMariadb();
 }
 if (totals.failed > 0) code = 1;
-process.stdout.write(`${totals.passed} passed, ${totals.failed} failed${totals.skipped ? `, ${totals.skipped} skipped` : ''}\n`);
+process.stdout.write(
+  `${totals.passed} passed, ${totals.failed} failed${totals.skipped ? `, ${totals.skipped} skipped` : ''}\n`,
+);
 process.exit(code);

@@ -24,6 +24,18 @@ export function ensureChromium() {
   run('apt-get', ['install', '-y', '-qq', 'chromium'], { env });
 }
 
+/**
+ * Installs Debian's poppler-utils when `pdftoppm` is missing: the browser tests render the
+ * evaluation report's PDF pages to PNG with it to see that the charts are drawn.
+ */
+export function ensurePdfRenderer() {
+  if (fs.existsSync('/usr/bin/pdftoppm')) return;
+  log("pdftoppm is not installed: installing Debian's poppler-utils package");
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  run('apt-get', ['update', '-qq'], { env });
+  run('apt-get', ['install', '-y', '-qq', 'poppler-utils'], { env });
+}
+
 /** Newest modification time of any file under the given folders (skips node_modules). */
 export function newestMtime(dirs) {
   let newest = 0;

@@ -1,4 +1,6 @@
+import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
 import { signIn } from './helpers';
@@ -142,4 +144,73 @@ test('a clinician records cases (one refused for a record number) and answers th
     .getByRole('heading', { name: 'Clinician survey' })
     .scrollIntoViewIfNeeded();
   await shoot(page, 'evidence-survey-decision.png');
+
+  // The report: three charts drawn, each with its summary sentence; the buyer revises the decision
+  // there and downloads the PDF.
+  await page
+    .locator('ev-loan-evidence')
+    .getByRole('link', { name: 'Open the evaluation report' })
+    .click();
+  await expect(page.getByRole('heading', { name: 'Evaluation report' })).toBeVisible();
+  await expect(page.getByRole('note', { name: 'About this report' })).toContainText(
+    'not clinical evidence for individual patients',
+  );
+  for (const key of ['operative-time', 'ablation-rate', 'survey']) {
+    const chart = page.locator(`[data-chart="${key}"]`);
+    await expect(chart).toHaveAttribute('aria-label', /\S/);
+    // The chart library drew shapes (SVG paths) into the chart area.
+    await expect.poll(() => chart.locator('svg path').count()).toBeGreaterThan(3);
+  }
+  await expect(page.getByText(/Operative time of 4 case\(s\)/).first()).toBeVisible();
+  const reportDecision = page.locator('ev-evaluation-decision');
+  await reportDecision.getByRole('radio', { name: 'Buy' }).check();
+  await reportDecision
+    .getByRole('checkbox', { name: 'Clinical results in the evaluation' })
+    .check();
+  await reportDecision
+    .getByLabel('Note for the committee')
+    .fill('Recommend for the next capital round; see report');
+  await reportDecision.getByRole('button', { name: 'Record the decision' }).click();
+  await expect(page.getByText('Decision recorded: Buy.')).toBeVisible();
+  await page.getByRole('button', { name: 'Dismiss' }).click();
+  await shoot(page, 'evidence-report.png');
+  await page.locator('[data-chart="operative-time"]').scrollIntoViewIfNeeded();
+  await shoot(page, 'evidence-report-charts.png');
+
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('link', { name: 'Download PDF' }).click(),
+  ]);
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'evalon-report-'));
+  const pdf = path.join(dir, 'report.pdf');
+  await download.saveAs(pdf);
+  expect(fs.readFileSync(pdf).subarray(0, 5).toString()).toBe('%PDF-');
+  // Pages to PNG (for people) and PPM (to count pixels) with Debian's pdftoppm (poppler-utils).
+  execFileSync('pdftoppm', ['-r', '50', '-png', pdf, path.join(dir, 'page')]);
+  execFileSync('pdftoppm', ['-r', '50', pdf, path.join(dir, 'raw')]);
+  const pngs = fs.readdirSync(dir).filter((f) => f.endsWith('.png'));
+  expect(pngs.length).toBeGreaterThanOrEqual(2);
+  // Chart marks use the report palette's teal (#1d5e66) and brown (#8a4f1d): count such pixels.
+  let chartPixels = 0;
+  for (const f of fs.readdirSync(dir).filter((n) => n.endsWith('.ppm'))) {
+    const buf = fs.readFileSync(path.join(dir, f));
+    const header = buf.toString('latin1', 0, 40).split(/\s+/);
+    const offset = buf.indexOf('\n', buf.indexOf('\n', buf.indexOf('\n') + 1) + 1) + 1;
+    expect(header[0]).toBe('P6');
+    for (let i = offset; i + 2 < buf.length; i += 3) {
+      const [r, g, b] = [buf[i], buf[i + 1], buf[i + 2]];
+      const teal = Math.abs(r - 0x1d) < 40 && Math.abs(g - 0x5e) < 40 && Math.abs(b - 0x66) < 40;
+      const brown = Math.abs(r - 0x8a) < 40 && Math.abs(g - 0x4f) < 40 && Math.abs(b - 0x1d) < 40;
+      if (teal || brown) chartPixels++;
+    }
+  }
+  // Bars and points of three charts at 50 dpi cover thousands of pixels; titles alone far fewer.
+  expect(chartPixels).toBeGreaterThan(3000);
+  console.log(`report PDF: ${pngs.length} pages, ${chartPixels} chart-coloured pixels at 50 dpi`);
+  if (process.env.EVALON_E2E_SCREENSHOTS) {
+    fs.copyFileSync(
+      path.join(dir, pngs.sort()[0]),
+      path.join(screenshots, 'evidence-report-pdf-page-1.png'),
+    );
+  }
 });

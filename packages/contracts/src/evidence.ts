@@ -197,6 +197,15 @@ export const feedbackItemLabels: Record<FeedbackItem, string> = {
   reliability: 'It worked without interruptions',
   would_use_again: 'I would use it again for these cases',
 };
+/** Short names of the survey items, for chart axes and tables. */
+export const feedbackItemShortLabels: Record<FeedbackItem, string> = {
+  setup: 'Set-up',
+  handling: 'Handling',
+  visualisation: 'View',
+  ergonomics: 'Ergonomics',
+  reliability: 'Reliability',
+  would_use_again: 'Use again',
+};
 /** 1 = strongly disagree … 5 = strongly agree. */
 export const likertLabels = [
   'Strongly disagree',
@@ -340,3 +349,78 @@ export const loanMetricsResponse = z
   })
   .meta({ id: 'LoanMetrics' });
 export type LoanMetricsResponse = z.infer<typeof loanMetricsResponse>;
+
+/** The caution on the evaluation report, on screen and in the PDF (product brief, cautions). */
+export const reportCaution =
+  'This report summarises evaluation data recorded during a loan. It is not clinical evidence ' +
+  'for individual patients and not a study result: the cases are few, unrandomised and ' +
+  'de-identified. Purchasing and privileging remain the hospital’s decisions, made under its own ' +
+  'rules; loaned devices are used only by trained clinicians following the manufacturer’s ' +
+  'instructions for use, and local rules and licensed practice prevail.';
+
+/** `PUT /api/loans/:id/evidence-sharing`: the hospital's consent to share the report. */
+export const sharingInput = z
+  .object({ sharedWithLender: z.boolean({ error: 'Say whether to share: true or false.' }) })
+  .strict()
+  .meta({ id: 'EvidenceSharingInput' });
+export type SharingInput = z.infer<typeof sharingInput>;
+
+/** Whether the hospital shares the loan's evaluation report with the lender. */
+export const evidenceSharing = z
+  .object({
+    sharedWithLender: z.boolean(),
+    changedByName: z.string().nullable(),
+    changedAt: z.string().nullable(),
+  })
+  .meta({ id: 'EvidenceSharing' });
+export type EvidenceSharing = z.infer<typeof evidenceSharing>;
+
+/** A chart of the report: options for the chart library and the same numbers in words and rows. */
+export const reportChart = z.object({
+  key: z.string(),
+  title: z.string(),
+  option: z.record(z.string(), z.unknown()),
+  summary: z.string(),
+  table: z.object({
+    columns: z.array(z.string()),
+    rows: z.array(z.array(z.union([z.string(), z.number()]))),
+  }),
+});
+export type ReportChart = z.infer<typeof reportChart>;
+
+const moneyAmount = z.object({ amount: z.number().int(), currency: z.string().length(3) });
+
+/** `GET /api/loans/:id/report`: what the report page and the PDF show. */
+export const evaluationReport = z
+  .object({
+    loan: z.object({
+      id: z.number().int(),
+      reference: z.string(),
+      state: z.string(),
+      hospitalName: z.string(),
+      lenderName: z.string(),
+      units: z.array(z.object({ modelName: z.string(), serialNumber: z.string() })),
+    }),
+    /** Whether the reader is the lender, reading by the hospital's consent. */
+    readAsLender: z.boolean(),
+    /** Whether the reader may change the consent and record the decision (the buyer). */
+    canDecide: z.boolean(),
+    sharing: evidenceSharing,
+    metrics: loanMetricsResponse,
+    charts: z.array(reportChart),
+    costs: z.object({
+      deposit: moneyAmount,
+      securedAs: z.enum(['hold', 'charge', 'waived']).nullable(),
+      settled: z.boolean(),
+      charges: z.array(z.object({ reason: z.string(), amount: z.number().int() })),
+      kept: z.number().int(),
+      returned: z.number().int(),
+      uncovered: z.number().int(),
+      proctorFees: z.array(
+        z.object({ reference: z.string(), state: z.string(), fee: moneyAmount.nullable() }),
+      ),
+    }),
+    caution: z.string(),
+  })
+  .meta({ id: 'EvaluationReport' });
+export type EvaluationReport = z.infer<typeof evaluationReport>;

@@ -6,3 +6,6 @@ export * from './outcomes';
 export * from './procedures';
 export * from './deidentify';
 export * from './metrics';
+export * from './report-charts';
+export * from './csv-guard';
+export * from './utilisation';

@@ -29,6 +29,7 @@ const subscribers = serverComponents.flatMap((c) => [...(c.subscribers ?? [])]);
  * `typeorm_metadata` (which the demo data loader must not empty).
  */
 export const appTables = [
+  'evaluation_sharing',
   'evaluation_decisions',
   'evaluation_feedback',
   'evaluation_cases',

@@ -16,6 +16,8 @@ import { createPaymentsClient, type PaymentsClient } from './domain/provider';
 
 export { runDepositExpiry, startDepositExpiryJob, type ExpiryJob } from './domain/expiry';
 export { settleDeposit } from './domain/settlement';
+// Reports (evaluation evidence) show the costs seen in Evalon through this read.
+export { loanCostsSeen, type LoanCostsSeen } from './domain/costs';
 export { createPaymentsClient, type PaymentsClient } from './domain/provider';
 export { LocalDocumentStore } from './domain/documents';
 export type { PaymentsDeps } from './domain/deps';

@@ -33,6 +33,8 @@ export {
 } from './domain/notifications';
 export { runOfferDeadlines, startOfferDeadlineJob, type OfferDeadlineJob } from './domain/offers';
 export { signOffCaution } from './domain/pdf';
+// Reports (evaluation evidence) show the proctor fees of a loan's visits through this read.
+export { loanVisitFees, type LoanVisitFee } from './domain/fees';
 
 /** The component's tables. */
 export const visitEntities = [

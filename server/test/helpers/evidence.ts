@@ -17,6 +17,8 @@ export interface EvidenceWorld {
   clinician: TestPerson;
   secondClinician: TestPerson;
   coordinator: TestPerson;
+  /** The lender's fleet manager. */
+  fleet: TestPerson;
   proctor: TestProctor;
   visitId: number;
 }
@@ -125,6 +127,7 @@ export async function makeEvidenceWorld(
     clinician: hospital.clinician,
     secondClinician,
     coordinator: lender.coordinator,
+    fleet: lender.fleet,
     proctor,
     visitId,
   };

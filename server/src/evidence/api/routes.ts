@@ -6,6 +6,9 @@ import {
   caseResponse,
   decisionInput,
   errorBody,
+  evaluationReport,
+  evidenceSharing,
+  sharingInput,
   evaluationDecision,
   feedback,
   feedbackInput,
@@ -20,6 +23,9 @@ import { changeCase, listCases, recordCase, removeCase } from '../domain/cases';
 import type { EvidenceDeps } from '../domain/deps';
 import { recordDecision, recordFeedback } from '../domain/feedback';
 import { getMetrics } from '../domain/metrics';
+import { casesCsv } from '../domain/cases-csv';
+import { getReport, setSharing } from '../domain/report';
+import { renderReportPdf } from '../domain/report-pdf';
 
 const error = (description: string) => ({ description, schema: errorBody });
 const seeing = error('No such loan, or not one of yours.');
@@ -35,6 +41,17 @@ export function evidenceRoutes(deps: EvidenceDeps, catalogue: CatalogueEntry[]):
   const api = new ApiRouter('/api/loans', 'Evidence', catalogue);
   const scope = (req: Parameters<typeof currentAuth>[0], loanId: number) =>
     evidenceAccess(deps.dataSource.manager, currentAuth(req), loanId).then(() => undefined);
+  // The report, its PDF and the cases CSV are also the lender's to read once the hospital shares.
+  const reportScope = (req: Parameters<typeof currentAuth>[0], loanId: number) =>
+    evidenceAccess(deps.dataSource.manager, currentAuth(req), loanId, false, true).then(
+      () => undefined,
+    );
+  const readers = {
+    roles: ['buyer', 'clinician', 'proctor', 'admin', 'fleet_manager', 'coordinator'] as const,
+  };
+  const notSharedYet = error(
+    '`evidence_not_shared`: the lender’s people, while the hospital has not shared the report.',
+  );
 
   api.route(
     {
@@ -200,6 +217,108 @@ export function evidenceRoutes(deps: EvidenceDeps, catalogue: CatalogueEntry[]):
     },
     async ({ req, res, params, body }) => {
       res.json({ decision: await recordDecision(deps, currentAuth(req), params.id, body) });
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/:id/report',
+      summary: 'The evaluation report: figures, charts with their text, costs and the decision',
+      description:
+        'For the hospital’s buyers and clinicians, the loan’s proctors and the admin; for the ' +
+        'lender’s fleet managers and coordinators once a buyer shared it (clinicians then read ' +
+        'as “Clinician 1”, “Clinician 2”, …). Each chart comes as chart options with a summary ' +
+        'sentence and a table of the same numbers. Costs are the deposit, the settlement ' +
+        'charges and the proctor fees recorded in Evalon.',
+      access: { roles: [...readers.roles] },
+      params: loanParams,
+      scope: (req, params) => reportScope(req, params.id),
+      responses: {
+        200: { description: 'The report.', schema: evaluationReport },
+        403: notSharedYet,
+        404: seeing,
+      },
+    },
+    async ({ req, res, params }) => {
+      res.json((await getReport(deps, currentAuth(req), params.id)).report);
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/:id/report.pdf',
+      summary: 'Download the evaluation report as PDF (charts as vector graphics)',
+      description: 'Same readers as the report. Carries the report’s caution on the first page.',
+      access: { roles: [...readers.roles] },
+      params: loanParams,
+      scope: (req, params) => reportScope(req, params.id),
+      responses: { 200: { description: 'The PDF.' }, 403: notSharedYet, 404: seeing },
+    },
+    async ({ req, res, params }) => {
+      const { report } = await getReport(deps, currentAuth(req), params.id);
+      const pdf = await renderReportPdf(report, deps.now());
+      res
+        .status(200)
+        .set({
+          'Content-Type': 'application/pdf',
+          'Content-Disposition': `attachment; filename="evaluation-${report.loan.reference}.pdf"`,
+          'X-Content-Type-Options': 'nosniff',
+          'Cache-Control': 'private, no-store',
+        })
+        .send(pdf);
+    },
+  );
+
+  api.route(
+    {
+      method: 'get',
+      path: '/:id/cases.csv',
+      summary: 'Download the de-identified cases as CSV',
+      description:
+        'Same readers as the report. One row per case; cells that start with = + - @ are ' +
+        'prefixed with a single quote so a spreadsheet shows them as text.',
+      access: { roles: [...readers.roles] },
+      params: loanParams,
+      scope: (req, params) => reportScope(req, params.id),
+      responses: { 200: { description: 'The CSV.' }, 403: notSharedYet, 404: seeing },
+    },
+    async ({ req, res, params }) => {
+      const { report, cases } = await getReport(deps, currentAuth(req), params.id);
+      res
+        .status(200)
+        .set({
+          'Content-Type': 'text/csv; charset=utf-8',
+          'Content-Disposition': `attachment; filename="cases-${report.loan.reference}.csv"`,
+          'X-Content-Type-Options': 'nosniff',
+          'Cache-Control': 'private, no-store',
+        })
+        .send(casesCsv(report, cases));
+    },
+  );
+
+  api.route(
+    {
+      method: 'put',
+      path: '/:id/evidence-sharing',
+      summary: 'Share the evaluation report with the lender, or stop sharing it',
+      description:
+        'For the hospital’s buyers only; each change is in the audit trail. Sharing lets the ' +
+        'lender’s fleet managers and coordinators read the report, its PDF and the cases CSV.',
+      access: { roles: ['buyer'] },
+      params: loanParams,
+      scope: (req, params) => scope(req, params.id),
+      body: sharingInput,
+      responses: {
+        200: { description: 'The consent now.', schema: z.object({ sharing: evidenceSharing }) },
+        403: error('Not a buyer of the loan’s hospital.'),
+        404: seeing,
+        422: error('`validation_failed`.'),
+      },
+    },
+    async ({ req, res, params, body }) => {
+      res.json({ sharing: await setSharing(deps, currentAuth(req), params.id, body) });
     },
   );
 

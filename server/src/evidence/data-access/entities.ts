@@ -193,8 +193,46 @@ export const EvaluationDecisionEntity = new EntitySchema<EvaluationDecisionRow>(
   ],
 });
 
+/** The hospital's consent to share the loan's evaluation report with the lender. */
+export interface EvaluationSharingRow {
+  loanId: number;
+  /** Whether the lender's people may read the report, its PDF and the de-identified cases. */
+  sharedWithLender: boolean;
+  changedByUserId: number;
+  changedAt: Date;
+}
+
+export const EvaluationSharingEntity = new EntitySchema<EvaluationSharingRow>({
+  name: 'EvaluationSharing',
+  tableName: 'evaluation_sharing',
+  columns: {
+    loanId: { type: 'int', unsigned: true, name: 'loan_id', primary: true },
+    sharedWithLender: { type: 'boolean', width: 1, name: 'shared_with_lender' },
+    changedByUserId: refColumn('changed_by_user_id'),
+    changedAt: instantColumn('changed_at'),
+  },
+  indices: [{ name: 'ix_evaluation_sharing_changed_by', columns: ['changedByUserId'] }],
+  foreignKeys: [
+    {
+      name: 'fk_evaluation_sharing_loan',
+      target: 'Loan',
+      columnNames: ['loanId'],
+      referencedColumnNames: ['id'],
+      ...restrict,
+    },
+    {
+      name: 'fk_evaluation_sharing_changed_by',
+      target: 'User',
+      columnNames: ['changedByUserId'],
+      referencedColumnNames: ['id'],
+      ...restrict,
+    },
+  ],
+});
+
 export const evidenceEntities = [
   EvaluationCaseEntity,
   EvaluationFeedbackEntity,
   EvaluationDecisionEntity,
+  EvaluationSharingEntity,
 ];

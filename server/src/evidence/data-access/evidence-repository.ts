@@ -7,9 +7,11 @@ import {
   EvaluationCaseEntity,
   EvaluationDecisionEntity,
   EvaluationFeedbackEntity,
+  EvaluationSharingEntity,
   type EvaluationCaseRow,
   type EvaluationDecisionRow,
   type EvaluationFeedbackRow,
+  type EvaluationSharingRow,
 } from './entities';
 
 /** What the evidence component needs of a loan. */
@@ -229,4 +231,41 @@ export async function findDecision(
       : row.reasons) as EvaluationDecisionRow['reasons'],
     decidedByName: names.get(row.decidedByUserId) ?? '',
   };
+}
+
+/** The hospital's consent to share the report with the lender, if ever set. */
+export async function findSharing(
+  m: EntityManager,
+  loanId: number,
+): Promise<EvaluationSharingRow | null> {
+  const row = await m.findOne(EvaluationSharingEntity, { where: { loanId } });
+  return row ? { ...row, sharedWithLender: Boolean(row.sharedWithLender) } : null;
+}
+
+/** Inserts or replaces the loan's consent row. */
+export async function upsertSharing(m: EntityManager, row: EvaluationSharingRow): Promise<void> {
+  await m.query(
+    `INSERT INTO evaluation_sharing (loan_id, shared_with_lender, changed_by_user_id, changed_at)
+     VALUES (?, ?, ?, ?)
+     ON DUPLICATE KEY UPDATE shared_with_lender = VALUES(shared_with_lender),
+       changed_by_user_id = VALUES(changed_by_user_id), changed_at = VALUES(changed_at)`,
+    [row.loanId, row.sharedWithLender ? 1 : 0, row.changedByUserId, row.changedAt],
+  );
+}
+
+/** Names of organisations by id (the loan's hospital and lender, for the report's heading). */
+export async function organisationNames(
+  m: EntityManager,
+  ids: number[],
+): Promise<Map<number, string>> {
+  const rows = (await m.query(
+    `SELECT id, name FROM organisations WHERE id IN (${ids.map(() => '?').join(', ')})`,
+    ids,
+  )) as { id: number; name: string }[];
+  return new Map(rows.map((r) => [Number(r.id), String(r.name)]));
+}
+
+/** A member's name, for who changed the consent. */
+export async function userName(m: EntityManager, id: number): Promise<string> {
+  return (await userNames(m, [id])).get(id) ?? '';
 }

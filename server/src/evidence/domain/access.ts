@@ -6,6 +6,7 @@ import { isBuyerOf, worksForLender } from '../../catalog';
 import {
   findEvidenceLoan,
   findLinkedVisits,
+  findSharing,
   type EvidenceLoan,
   type LinkedVisit,
 } from '../data-access/evidence-repository';
@@ -22,6 +23,8 @@ export interface EvidenceAccess {
   buyer: boolean;
   /** Whether the person may add, change and remove cases (clinicians and the loan's proctors). */
   canRecord: boolean;
+  /** Whether the person reads as the lender, by the hospital's consent (report routes only). */
+  lender: boolean;
 }
 
 /** Loan states in which cases and surveys are recorded: from delivery until it is back. */
@@ -38,6 +41,8 @@ export async function evidenceAccess(
   auth: AuthContext,
   loanId: number,
   lock = false,
+  /** Whether the lender's people may read here when the hospital shared the report. */
+  lenderByConsent = false,
 ): Promise<EvidenceAccess> {
   const loan = await findEvidenceLoan(m, loanId, lock);
   if (!loan) throw AppError.notFound('loan_not_found', 'There is no such loan.');
@@ -49,6 +54,9 @@ export async function evidenceAccess(
   const proctorVisits = visits.filter((v) => v.proctorUserId === auth.user.id);
   if (!clinician && !buyer && proctorVisits.length === 0 && !auth.isPlatformAdmin) {
     if (worksForLender(auth, loan.lenderId)) {
+      if (lenderByConsent && (await findSharing(m, loanId))?.sharedWithLender) {
+        return { loan, visits, clinician, proctorVisits, buyer, canRecord: false, lender: true };
+      }
       throw AppError.forbidden(
         'evidence_not_shared',
         'Case records belong to the hospital; they are not shared with the lender.',
@@ -63,6 +71,7 @@ export async function evidenceAccess(
     proctorVisits,
     buyer,
     canRecord: clinician || proctorVisits.length > 0,
+    lender: false,
   };
 }
 

@@ -1,12 +1,14 @@
 import {
   feedbackItems,
+  type EvaluationCase,
   type EvaluationDecision,
   type LoanMetricsResponse,
 } from '@evalon/contracts';
 import { loanMetrics, quantileMethod, summarise } from '@evalon/evidence';
+import type { EntityManager } from 'typeorm';
 import type { AuthContext } from '../../identity';
 import { findCases, findDecision, findFeedback } from '../data-access/evidence-repository';
-import { evidenceAccess } from './access';
+import { evidenceAccess, type EvidenceAccess } from './access';
 import { toCase } from './cases';
 import type { EvidenceDeps } from './deps';
 
@@ -18,6 +20,18 @@ export async function getMetrics(
 ): Promise<LoanMetricsResponse> {
   const m = deps.dataSource.manager;
   const access = await evidenceAccess(m, auth, loanId);
+  return (await metricsOf(m, access)).metrics;
+}
+
+/**
+ * The figures of a loan the person may see, with the cases they were computed from (the report
+ * draws its charts from both).
+ */
+export async function metricsOf(
+  m: EntityManager,
+  access: EvidenceAccess,
+): Promise<{ metrics: LoanMetricsResponse; cases: EvaluationCase[] }> {
+  const loanId = access.loan.id;
   const [rows, surveys, decision] = await Promise.all([
     findCases(m, loanId),
     findFeedback(m, loanId),
@@ -38,7 +52,7 @@ export async function getMetrics(
     })),
     access.loan.signOffThreshold,
   );
-  return {
+  const response: LoanMetricsResponse = {
     ...metrics,
     quantileMethod,
     perClinician: metrics.perClinician.map((p) => ({
@@ -54,6 +68,7 @@ export async function getMetrics(
     },
     decision: decision ? toDecision(decision) : null,
   };
+  return { metrics: response, cases };
 }
 
 /** The API shape of a decision. */

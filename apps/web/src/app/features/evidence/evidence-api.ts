@@ -7,6 +7,8 @@ import type {
   DecisionInput,
   EvaluationCase,
   EvaluationDecision,
+  EvaluationReport,
+  EvidenceSharing,
   Feedback,
   FeedbackInput,
   LoanMetricsResponse,
@@ -52,6 +54,20 @@ export class EvidenceApi {
     return this.http
       .post<{ feedback: Feedback }>(`/api/loans/${loanId}/feedback`, body)
       .pipe(map((r) => r.feedback));
+  }
+
+  /** The evaluation report: charts with their text, figures, costs and the decision. */
+  report(loanId: number): Observable<EvaluationReport> {
+    return this.http.get<EvaluationReport>(`/api/loans/${loanId}/report`);
+  }
+
+  /** The buyer shares the report with the lender, or stops sharing it. */
+  share(loanId: number, sharedWithLender: boolean): Observable<EvidenceSharing> {
+    return this.http
+      .put<{ sharing: EvidenceSharing }>(`/api/loans/${loanId}/evidence-sharing`, {
+        sharedWithLender,
+      })
+      .pipe(map((r) => r.sharing));
   }
 
   /** Records (or revises) the hospital's decision. */

@@ -15,6 +15,7 @@ import { MatIconModule } from '@angular/material/icon';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
+import { RouterLink } from '@angular/router';
 import {
   decisionLabels,
   decisionReasonLabels,
@@ -67,6 +68,7 @@ export function nextCaseNumber(cases: readonly Pick<EvaluationCase, 'caseNumber'
     MatProgressBarModule,
     MatTableModule,
     MatTooltipModule,
+    RouterLink,
   ],
   templateUrl: './loan-evidence.html',
   styleUrl: './loan-evidence.scss',

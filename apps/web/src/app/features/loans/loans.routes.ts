@@ -23,4 +23,9 @@ export const loansRoutes: Routes = [
     title: 'Request a loan',
   },
   { path: ':id', component: LoanPage, title: 'Loan' },
+  {
+    // The evaluation report lives in the evidence feature, with its own lazy chart library.
+    path: ':id/report',
+    loadChildren: () => import('../evidence/evidence.routes').then((m) => m.evidenceReportRoutes),
+  },
 ];
