@@ -27,16 +27,12 @@ const positive = (fallback: number) =>
       .positive('must be greater than 0')
       .default(fallback),
   );
-const url = (fallback?: string) =>
-  z.preprocess(
-    blankAsMissing,
-    (fallback === undefined ? z.string().optional() : z.string().default(fallback)).refine(
-      (v) => /^https?:\/\/[^/\s]+/i.test(v) && URL.canParse(v),
-      {
-        message: 'must be an http:// or https:// URL',
-      },
-    ),
-  );
+const isHttpUrl = (v: string) => /^https?:\/\/[^/\s]+/i.test(v) && URL.canParse(v);
+const urlMessage = { message: 'must be an http:// or https:// URL' };
+const url = (fallback: string) =>
+  z.preprocess(blankAsMissing, z.string().default(fallback).refine(isHttpUrl, urlMessage));
+const optionalUrl = () =>
+  z.preprocess(blankAsMissing, z.string().refine(isHttpUrl, urlMessage).optional());
 
 /** Every environment variable the server reads, with its default. */
 const envSchema = z.object({
@@ -78,9 +74,9 @@ const envSchema = z.object({
   // Without explicit URLs the sign-in stand-in on EVALON_OAUTH_PORT answers, the port the
   // start and test scripts give it (a second checkout runs its stand-ins on other ports).
   EVALON_OAUTH_PORT: port(8089),
-  EVALON_GOOGLE_AUTH_URL: url(),
-  EVALON_GOOGLE_TOKEN_URL: url(),
-  EVALON_GOOGLE_USERINFO_URL: url(),
+  EVALON_GOOGLE_AUTH_URL: optionalUrl(),
+  EVALON_GOOGLE_TOKEN_URL: optionalUrl(),
+  EVALON_GOOGLE_USERINFO_URL: optionalUrl(),
   EVALON_WEB_DIST: str('dist/web/browser'),
   EVALON_ROOT: z.preprocess(blankAsMissing, z.string().optional()),
   EVALON_UPLOAD_DIR: str('.data/uploads'),

@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
-import { findLoanDeposit, findLoanPayments } from '../data-access/payment-repository';
+import { findLoanDeposit } from '../data-access/loan-deposit-repository';
+import { findLoanPayments } from '../data-access/payment-repository';
 import type { DepositSettlement } from './settlement';
 
 /** What the hospital paid or owes for a loan, as payments knows it (integer minor units). */

@@ -5,8 +5,8 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
  * within the evaluation), each clinician's survey per loan, and the buyer's decision (one per
  * loan, revisable; earlier versions stay in the audit trail).
  */
-export class Evidence1765324800000 implements MigrationInterface {
-  name = 'Evidence1765324800000';
+export class Evidence1765324860000 implements MigrationInterface {
+  name = 'Evidence1765324860000';
 
   async up(q: QueryRunner): Promise<void> {
     await q.query(`
