@@ -105,7 +105,7 @@ describe('evaluation report', () => {
     expect(curve.a).toBeCloseTo(100, 0);
     expect(curve.b).toBeCloseTo(-0.5, 2);
     expect(r.charts[0].summary).toContain(`${w.clinician.name}: 4 cases`);
-    // 10 mm sphere over 10 min: π/6·1000/10 = 52.36 mm³/min (geometry; reference-values.md).
+    // 10 mm sphere over 10 min: π/6·1000/10 = 52.36 mm³/min (geometry; docs/references.md).
     expect(r.charts[1].table.rows.map((row: unknown[]) => row[2])).toEqual([
       52.4, 52.4, 52.4, 52.4,
     ]);

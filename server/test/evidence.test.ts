@@ -45,7 +45,7 @@ describe('case records', () => {
     const clinician = await sign(w.clinician);
     const res = await send(clinician, 'post', `/api/loans/${w.loanId}/cases`, caseBody(w));
     expect(res.status).toBe(201);
-    // 20 mm sphere: π/6 · 20³ = 4,188.79 mm³ (geometry; reference-values.md); ÷ 20 min = 209.44.
+    // 20 mm sphere: π/6 · 20³ = 4,188.79 mm³ (geometry; docs/references.md); ÷ 20 min = 209.44.
     expect(res.body.case.targetVolumeMm3).toBeCloseTo(4188.79, 2);
     expect(res.body.case.ablationRateMm3PerMin).toBeCloseTo(209.44, 2);
     expect(res.body.case).toMatchObject({

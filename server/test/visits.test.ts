@@ -1006,7 +1006,7 @@ describe('a clinician’s training record', () => {
       ratings: { setup: 1, team_communication: 5 },
     });
     // Observed cases do not count; the hospital's default threshold is 3 (survey mean 3.24,
-    // reference-values.md).
+    // docs/references.md).
     expect(mid.progress).toEqual([
       expect.objectContaining({
         hospitalId: w.hospital.id,
@@ -1061,7 +1061,7 @@ describe('visit settings', () => {
         res.body.items as { proctorId: number; eligible: boolean; exclusions: string[] }[]
       ).find((c) => c.proctorId === p.userId)!;
     };
-    // Default 20 (product assumption, reference-values.md): 15 cases are not enough.
+    // Default 20 (product assumption, docs/references.md): 15 cases are not enough.
     const before = await candidate();
     expect(before.eligible).toBe(false);
     expect(before.exclusions.join(' ')).toMatch(/20/);
@@ -1121,7 +1121,7 @@ describe('visit settings', () => {
     const got = await w.buyer.agent
       .get(`/api/visits/settings/hospitals/${w.hospital.id}`)
       .expect(200);
-    // Default 3 (policy default; survey mean 3.24 ± 1.69, range 1–10, reference-values.md).
+    // Default 3 (policy default; survey mean 3.24 ± 1.69, range 1–10, docs/references.md).
     expect(got.body.signOffThreshold).toBe(3);
     for (const bad of [0, 11, 2.5]) {
       const res = await put(w.buyer, { signOffThreshold: bad });

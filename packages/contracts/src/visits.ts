@@ -513,7 +513,7 @@ export type TrainingRecord = z.infer<typeof trainingRecord>;
 export const minSupervisedCasesRange = { min: 0, max: 500 } as const;
 /**
  * Range of a hospital's sign-off threshold: the 42 policies in the published survey asked for
- * 1 to 10 proctored cases (reference-values.md).
+ * 1 to 10 proctored cases (docs/references.md).
  */
 export const signOffThresholdRange = { min: 1, max: 10 } as const;
 

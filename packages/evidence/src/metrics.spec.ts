@@ -4,7 +4,7 @@ const base = { setupMinutes: 20, complicationGrade: '0' as const, proctored: fal
 
 describe('deriveCase', () => {
   it('adds volume and ablation rate', () => {
-    // 20 mm sphere → π/6·20³ = 4,188.79 mm³ (geometry, reference-values.md); over 20 min → 209.44.
+    // 20 mm sphere → π/6·20³ = 4,188.79 mm³ (geometry, docs/references.md); over 20 min → 209.44.
     const d = deriveCase({
       target: { lengthMm: 20, widthMm: 20, heightMm: 20 },
       energyMinutes: 20,

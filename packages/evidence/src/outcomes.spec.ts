@@ -7,7 +7,7 @@ import {
 
 describe('complications', () => {
   it('has the seven published Clavien–Dindo grades after our "0"', () => {
-    // Dindo, Demartines, Clavien, Ann Surg 2004 (from memory, listed in reference-values.md):
+    // Dindo, Demartines, Clavien, Ann Surg 2004 (from memory, listed in docs/references.md):
     // I, II, IIIa, IIIb, IVa, IVb, V.
     expect(complicationGrades.slice(1)).toEqual(['I', 'II', 'IIIa', 'IIIb', 'IVa', 'IVb', 'V']);
   });

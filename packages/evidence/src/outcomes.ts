@@ -5,7 +5,7 @@
 
 /**
  * Clavien–Dindo classification of surgical complications (Dindo, Demartines, Clavien, Ann Surg
- * 2004; 240:205–213, grades from memory and listed in reference-values.md). "0" is our value
+ * 2004; 240:205–213, grades from memory and listed in docs/references.md). "0" is our value
  * for "no complication" so that every case has a grade; the published scale starts at I.
  */
 export const complicationGrades = ['0', 'I', 'II', 'IIIa', 'IIIb', 'IVa', 'IVb', 'V'] as const;
@@ -53,7 +53,7 @@ export function isMajorComplication(grade: ComplicationGrade): boolean {
 
 /**
  * Default number of proctored cases before sign-off: a survey of 42 US hospital policies found a
- * mean of 3.24 ± 1.69 (range 1–10) proctored cases (reference-values.md); the product's policy
+ * mean of 3.24 ± 1.69 (range 1–10) proctored cases (docs/references.md); the product's policy
  * default is 3 and each hospital sets its own.
  */
 export const defaultSignOffThreshold = 3;

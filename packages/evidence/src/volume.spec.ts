@@ -2,7 +2,7 @@ import { ablationRateMm3PerMin, ellipsoidVolumeMm3, mm3PerJouleToPerMinute } fro
 
 describe('ellipsoidVolumeMm3', () => {
   it('gives a 20 mm sphere 4,188.8 mm³', () => {
-    // Geometry: sphere V = 4/3·π·r³ = π/6·d³; 20 mm → 4,188.79 mm³ (reference-values.md).
+    // Geometry: sphere V = 4/3·π·r³ = π/6·d³; 20 mm → 4,188.79 mm³ (docs/references.md).
     expect(ellipsoidVolumeMm3({ lengthMm: 20, widthMm: 20, heightMm: 20 })).toBeCloseTo(4188.79, 2);
     expect(ellipsoidVolumeMm3({ lengthMm: 20, widthMm: 20, heightMm: 20 })).toBeCloseTo(
       (4 / 3) * Math.PI * 10 ** 3,
@@ -43,7 +43,7 @@ describe('ablationRateMm3PerMin', () => {
 describe('mm3PerJouleToPerMinute', () => {
   it('puts the published bench range at 10 W into mm³/min', () => {
     // In-vitro pulsed thulium laser at 10 W: 0.021–0.039 mm³/J (World J Urol 2023, via
-    // reference-values.md) → about 12.6–23.4 mm³/min (derived there by the same rule).
+    // docs/references.md) → about 12.6–23.4 mm³/min (derived there by the same rule).
     expect(mm3PerJouleToPerMinute(0.021, 10)).toBeCloseTo(12.6, 9);
     expect(mm3PerJouleToPerMinute(0.039, 10)).toBeCloseTo(23.4, 9);
   });

@@ -8,17 +8,17 @@ describe('GS1 check digit (GS1 General Specifications §7.9.1)', () => {
     expect(gs1CheckDigit('890400021003')).toBe(7);
     // GS1 Sweden check-digit page: 730001100001 → 7.
     expect(gs1CheckDigit('730001100001')).toBe(7);
-    // reference-values.md (GS1 section; no publisher named there): 629104150021 → 3.
+    // docs/references.md (GS1 section; no publisher named there): 629104150021 → 3.
     expect(gs1CheckDigit('629104150021')).toBe(3);
   });
 
   it('accepts the published keys', () => {
-    // Derived (reference-values.md): GTIN-14 09521234543213 of the barcode writer's wiki example.
+    // Derived (docs/references.md): GTIN-14 09521234543213 of the barcode writer's wiki example.
     expect(isValidGs1Key('09521234543213')).toBe(true);
-    // The widely printed EAN-13 example (reference-values.md), also as GTIN-14.
+    // The widely printed EAN-13 example (docs/references.md), also as GTIN-14.
     expect(isValidGs1Key('4006381333931')).toBe(true);
     expect(isValidGs1Key('04006381333931')).toBe(true);
-    // Published UDI example (01)51022222233336 (reference-values.md): a valid GTIN-14.
+    // Published UDI example (01)51022222233336 (docs/references.md): a valid GTIN-14.
     expect(isValidGs1Key('51022222233336')).toBe(true);
   });
 
@@ -37,7 +37,7 @@ describe('GS1 check digit (GS1 General Specifications §7.9.1)', () => {
   });
 
   it('computes the derived SSCC example 10614141123456789 → 7 by hand as well', () => {
-    // reference-values.md (derived): body 10614141123456789 → check digit 7. The same sum
+    // docs/references.md (derived): body 10614141123456789 → check digit 7. The same sum
     // written out: weights 3,1,3,… from the rightmost digit of the 17-digit body.
     const body = '10614141123456789';
     const sum = [...body]

@@ -26,7 +26,7 @@ function fieldsOf(parsed: ParsedElementString) {
   return fields;
 }
 
-describe('the worked element string (barcode writer’s wiki example, reference-values.md)', () => {
+describe('the worked element string (barcode writer’s wiki example, docs/references.md)', () => {
   // (01)09521234543213(17)100101(10)123ABC(21)1234567890 → GTIN 09521234543213, expiry
   // 2010-01-01, lot 123ABC, serial 1234567890. A scanner sends it as
   // 01095212345432131710010110123ABC<GS>211234567890.
@@ -84,7 +84,7 @@ describe('the worked element string (barcode writer’s wiki example, reference-
   });
 });
 
-describe('another published UDI example (reference-values.md)', () => {
+describe('another published UDI example (docs/references.md)', () => {
   const hri = '(01)51022222233336(11)141231(17)150707(10)A213B1(21)1234';
 
   it('reads GTIN, production date, expiry, lot and serial', () => {
@@ -105,9 +105,9 @@ describe('another published UDI example (reference-values.md)', () => {
 
 describe('day 00 means the last day of the month (GS1 General Specifications, date AIs)', () => {
   it.each([
-    // reference-values.md: 17 280200 → 2028-02-29 (derived; 2028 is a leap year).
+    // docs/references.md: 17 280200 → 2028-02-29 (derived; 2028 is a leap year).
     ['17280200', 'expiry', '2028-02-29'],
-    // reference-values.md: 210300 → 2021-03-31.
+    // docs/references.md: 210300 → 2021-03-31.
     ['11210300', 'productionDate', '2021-03-31'],
     // Derived: 2027 is no leap year; 2000 is one (divisible by 400); December has 31 days.
     ['17270200', 'expiry', '2027-02-28'],
@@ -286,7 +286,7 @@ describe('errors: a code for programs and a message for the coordinator', () => 
 
 describe('buildElementString', () => {
   it('pads shorter GTINs to 14 digits (AI 01 always carries 14)', () => {
-    // The widely printed EAN-13 example (reference-values.md) as GTIN-14.
+    // The widely printed EAN-13 example (docs/references.md) as GTIN-14.
     expect(buildElementString({ gtin: '4006381333931' }, { form: 'hri' })).toBe(
       '(01)04006381333931',
     );

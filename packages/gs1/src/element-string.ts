@@ -15,7 +15,7 @@ export type Gs1Symbology = 'gs1-128' | 'gs1-datamatrix' | 'gs1-qr' | 'gs1-databa
 
 /**
  * Symbology identifiers (ISO/IEC 15424) a scanner may put in front of GS1 data. `]C1`, `]d2`
- * and `]Q3` are those of reference-values.md; `]e0` (GS1 DataBar and GS1 composite) is taken
+ * and `]Q3` are those of docs/references.md; `]e0` (GS1 DataBar and GS1 composite) is taken
  * from the table of GS1's Barcode Syntax Engine (scandata.c), which reads the same four as GS1
  * data. Anything else after `]` is not GS1 data, e.g. `]E0` (EAN-13) or `]d1` (plain Data Matrix).
  */

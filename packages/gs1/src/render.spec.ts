@@ -49,7 +49,7 @@ const fieldsOf = (scanned: string) => {
 
 describe('GS1-128 of a shipment SSCC', () => {
   it('renders a PNG that ZXing reads back as the same SSCC', async () => {
-    // reference-values.md (derived): (00)106141411234567897.
+    // docs/references.md (derived): (00)106141411234567897.
     const sscc = buildSscc({
       extensionDigit: 1,
       companyPrefix: '0614141',
@@ -82,9 +82,9 @@ describe('GS1-128 of a shipment SSCC', () => {
 
 describe('GS1 DataMatrix of the reference UDI strings', () => {
   it.each([
-    // Barcode writer's wiki example (reference-values.md).
+    // Barcode writer's wiki example (docs/references.md).
     ['(01)09521234543213(17)100101(10)123ABC(21)1234567890'],
-    // The other published UDI example (reference-values.md).
+    // The other published UDI example (docs/references.md).
     ['(01)51022222233336(11)141231(17)150707(10)A213B1(21)1234'],
   ])('%s survives render → ZXing → parse', async (hri) => {
     const png = await renderGs1DataMatrix(hri, { now: NOW });

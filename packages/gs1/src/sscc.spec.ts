@@ -6,7 +6,7 @@ import { buildSscc } from './sscc';
 
 describe('buildSscc (GS1 General Specifications, AI 00)', () => {
   it('builds the derived example (00)106141411234567897', () => {
-    // reference-values.md (derived): extension 1, company prefix 0614141, serial reference
+    // docs/references.md (derived): extension 1, company prefix 0614141, serial reference
     // 123456789 → body 10614141123456789 → check digit 7 (also computed in check-digit.spec.ts).
     const sscc = buildSscc({
       extensionDigit: 1,

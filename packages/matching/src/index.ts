@@ -1,5 +1,5 @@
 /**
- * `@evalon/matching`: proctor eligibility and ranking for a visit request (product.md,
+ * `@evalon/matching`: proctor eligibility and ranking for a visit request (docs/design/product.md,
  * computation 4). Pure: no I/O and no clock reads ("now" is a parameter).
  *
  * - Matching: {@link matchProctors} checks the hard constraints (licence for the campus
@@ -75,7 +75,7 @@ export {
 } from './recurrence';
 
 /**
- * Cautions to show beside a ranking (product.md, "Cautions the product shows").
+ * Cautions to show beside a ranking (docs/design/product.md, "Cautions the product shows").
  */
 export const MATCHING_CAUTIONS: readonly string[] = Object.freeze([
   'Evalon schedules and documents; it does not certify anyone. Credentialing and privileges are ' +

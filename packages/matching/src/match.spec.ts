@@ -290,7 +290,7 @@ describe('exclusions: one sentence per failed hard constraint', () => {
 });
 
 describe('visits across the 2027 daylight-saving changes', () => {
-  // DST 2027 (reference-values.md): New York 2027-03-14 07:00Z, Berlin 2027-03-28 01:00Z.
+  // DST 2027 (docs/references.md): New York 2027-03-14 07:00Z, Berlin 2027-03-28 01:00Z.
 
   it('New York campus, 12–16 Mar: 5 visit days, a travel day either side, availability intact', () => {
     const fromBerlin = proctor({

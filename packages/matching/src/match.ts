@@ -1,5 +1,5 @@
 /**
- * Proctor matching (product.md, computation 4): hard constraints, then a score for the eligible.
+ * Proctor matching (docs/design/product.md, computation 4): hard constraints, then a score for the eligible.
  */
 import { formatMoney } from '@evalon/deposits';
 import {
@@ -29,7 +29,7 @@ import type {
 } from './types';
 
 /**
- * Default settings. All are assumptions of this product (reference-values.md: the 500 km travel
+ * Default settings. All are assumptions of this product (docs/references.md: the 500 km travel
  * threshold and the 20 supervised cases are product assumptions, not trade rules), except the
  * per-state licensing countries, which are common practice.
  */

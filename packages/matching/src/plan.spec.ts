@@ -12,7 +12,7 @@ describe('planTravel: distance and travel days', () => {
   it('gives a proctor at LAX travel days for a campus at JFK (3,972.86 km)', () => {
     // Aviation Formulary (E. Williams) worked example LAX 33°57′N 118°24′W → JFK 40°38′N 73°47′W:
     // 0.623585 rad; with the IUGG mean radius 6,371.0088 km that is 3,972.86 km (derived, as in
-    // reference-values.md). Shown to 0.1 km: 3,972.9 km, beyond the 500 km threshold.
+    // docs/references.md). Shown to 0.1 km: 3,972.9 km, beyond the 500 km threshold.
     const plan = planTravel(LAX, JFK_CAMPUS, visit, 500);
     expect(Math.abs(plan.distanceKm - 3972.86)).toBeLessThanOrEqual(0.05);
     expect(plan.distanceKm).toBe(3972.9);
@@ -51,7 +51,7 @@ describe('planTravel: distance and travel days', () => {
   });
 
   it.each([
-    // DST 2027 (reference-values.md): New York springs forward 2027-03-14 07:00Z, falls back
+    // DST 2027 (docs/references.md): New York springs forward 2027-03-14 07:00Z, falls back
     // 2027-11-07 06:00Z; Berlin springs forward 2027-03-28 01:00Z.
     ['America/New_York', '2027-03-12', '2027-03-16', 119],
     ['America/New_York', '2027-11-05', '2027-11-09', 121],

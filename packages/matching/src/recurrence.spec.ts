@@ -22,7 +22,7 @@ function only(...rules: string[]): ProctorAvailability {
 describe('RFC 5545 §3.8.5.3 recurrence examples', () => {
   // RFC 5545 §3.8.5.3, "Every other week on Monday, Wednesday, and Friday until December 24,
   // 1997, starting on Monday, September 1, 1997". The expected list is the one in
-  // reference-values.md, which was written from memory and re-derived by hand (WKST=SU weeks);
+  // docs/references.md, which was written from memory and re-derived by hand (WKST=SU weeks);
   // it was compared with the RFC's listed dates as given there: Sep 1, 3, 5, 15, 17, 19, 29;
   // Oct 1, 3, 13, 15, 17, 27, 29, 31; Nov 10, 12, 14, 24, 26, 28; Dec 8, 10, 12, 22.
   const everyOtherWeek =
@@ -41,7 +41,7 @@ describe('RFC 5545 §3.8.5.3 recurrence examples', () => {
   });
 
   it('keeps 9:00 local: EDT before 26 Oct 1997, EST after', () => {
-    // reference-values.md: "9:00 local; EDT until Oct 26, EST after" (US rule of 1997 via IANA
+    // docs/references.md: "9:00 local; EDT until Oct 26, EST after" (US rule of 1997 via IANA
     // tz). 9:00 EDT = 13:00Z, 9:00 EST = 14:00Z.
     const occurrences = ruleOccurrences(everyOtherWeek, NEW_YORK, {
       from: '1997-10-15',
@@ -115,7 +115,7 @@ describe('RFC 5545 §3.8.5.3 recurrence examples', () => {
 });
 
 describe('daylight-saving changes in 2027 do not shift availability days', () => {
-  // DST 2027 (reference-values.md, derived from 15 U.S.C. 260a and EU Directive 2000/84/EC via
+  // DST 2027 (docs/references.md, derived from 15 U.S.C. 260a and EU Directive 2000/84/EC via
   // IANA tz): New York springs forward at 2027-03-14 07:00Z, Berlin at 2027-03-28 01:00Z.
 
   it('New York: 01:59 EST is the last minute before 07:00Z, 03:00 EDT is 07:00Z', () => {
