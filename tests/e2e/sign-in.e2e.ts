@@ -27,7 +27,7 @@ const roleCases: RoleCase[] = [
     name: 'Noor Lindqvist',
     context: 'Evalon Marketplace · Marketplace operator · Marketplace admin',
     navigation: ['Home', 'Organisations', 'Audit', 'E-mail outbox', 'Members'],
-    cards: ['E-mail outbox', 'Organisations', 'Audit', 'Members'],
+    cards: ['E-mail outbox', 'Members'],
   },
   {
     email: 'buyer@velmora.example',
@@ -41,7 +41,7 @@ const roleCases: RoleCase[] = [
     name: 'Rafael Oyelaran',
     context: 'Velmora Health · Hospital network · Clinician',
     navigation: ['Home', 'Loans', 'Proctoring', 'My training', 'Schedule', 'Case log'],
-    cards: ['Arrivals and visits', 'Case log'],
+    cards: ['Arrivals and visits', 'Evaluation cases', 'My training'],
   },
   {
     email: 'buyer@orlenbach.example',
@@ -56,6 +56,7 @@ const roleCases: RoleCase[] = [
     context: 'Quorvel Surgical · Lender · Fleet manager',
     navigation: [
       'Home',
+      'Shipments',
       'Catalog',
       'Approvals',
       'Credit agreements',
