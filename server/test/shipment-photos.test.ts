@@ -5,13 +5,13 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
-import { startTestApp, type TestApp } from './helpers/app';
-import { startCarrier, carrierWebhookSecret, type RunningCarrier } from './helpers/carrier';
+import type { TestApp } from './helpers/app';
+import type { RunningCarrier } from './helpers/carrier';
 import { countRows, makeHospital, makeUnit } from './helpers/catalog';
 import { signedInClient, type Client } from './helpers/http';
 import { tinyJpeg, tinyPng } from './helpers/images';
-import { listen, registerWebhook, startPaymentsFake, type RunningFake } from './helpers/payments';
-import { shipmentKit } from './helpers/shipments';
+import type { RunningFake } from './helpers/payments';
+import { shipmentKit, startShipmentStandIns, type ShipmentStandIns } from './helpers/shipments';
 
 jest.setTimeout(120_000);
 
@@ -22,27 +22,15 @@ process.env.EVALON_UPLOAD_DIR = uploadDir;
 let t: TestApp;
 let fake: RunningFake;
 let carrier: RunningCarrier;
-let server: { url: string; close(): Promise<void> };
+
+let standIns: ShipmentStandIns | undefined;
 
 beforeAll(async () => {
-  fake = await startPaymentsFake();
-  carrier = await startCarrier();
-  t = await startTestApp(
-    { EVALON_PAYMENTS_PORT: String(fake.port), EVALON_DEPOSIT_EXPIRY_JOB: 'off' },
-    { outboxWorker: false },
-  );
-  server = await listen(t.app);
-  await registerWebhook(fake, `${server.url}/api/webhooks/payments`);
-  await carrier.control('POST', '/webhook-endpoint', {
-    url: `${server.url}/api/webhooks/carrier`,
-    secret: carrierWebhookSecret,
-  });
+  standIns = await startShipmentStandIns();
+  ({ t, fake, carrier } = standIns);
 });
 afterAll(async () => {
-  await server?.close();
-  await t?.close();
-  await fake?.stop();
-  await carrier?.stop();
+  await standIns?.close();
   fs.rmSync(uploadDir, { recursive: true, force: true });
 });
 

@@ -4,20 +4,14 @@
 import crypto from 'node:crypto';
 import { shipmentEta, toSiteDate } from '@evalon/scheduling';
 import { DateTime } from 'luxon';
-import { startTestApp, type TestApp } from './helpers/app';
-import { startCarrier, carrierWebhookSecret, type RunningCarrier } from './helpers/carrier';
+import type { TestApp } from './helpers/app';
+import { carrierWebhookSecret, type RunningCarrier } from './helpers/carrier';
 import { countRows, makePlace, makeUnit, places } from './helpers/catalog';
-import {
-  fakeState,
-  listen,
-  registerWebhook,
-  startPaymentsFake,
-  type RunningFake,
-} from './helpers/payments';
+import { fakeState, type RunningFake } from './helpers/payments';
 import { createLogger } from '../src/logger';
 import { createPaymentsDeps } from '../src/payments';
 import { createShipmentsDeps, runShipmentAlerts } from '../src/shipments';
-import { shipmentKit } from './helpers/shipments';
+import { shipmentKit, startShipmentStandIns, type ShipmentStandIns } from './helpers/shipments';
 
 jest.setTimeout(90_000);
 
@@ -26,25 +20,14 @@ let fake: RunningFake;
 let carrier: RunningCarrier;
 let server: { url: string; close(): Promise<void> };
 
+let standIns: ShipmentStandIns | undefined;
+
 beforeAll(async () => {
-  fake = await startPaymentsFake();
-  carrier = await startCarrier();
-  t = await startTestApp(
-    { EVALON_PAYMENTS_PORT: String(fake.port), EVALON_DEPOSIT_EXPIRY_JOB: 'off' },
-    { outboxWorker: false },
-  );
-  server = await listen(t.app);
-  await registerWebhook(fake, `${server.url}/api/webhooks/payments`);
-  await carrier.control('POST', '/webhook-endpoint', {
-    url: `${server.url}/api/webhooks/carrier`,
-    secret: carrierWebhookSecret,
-  });
+  standIns = await startShipmentStandIns();
+  ({ t, fake, carrier, server } = standIns);
 });
 afterAll(async () => {
-  await server?.close();
-  await t?.close();
-  await fake?.stop();
-  await carrier?.stop();
+  await standIns?.close();
 });
 
 const kit = shipmentKit(

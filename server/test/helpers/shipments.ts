@@ -1,6 +1,7 @@
 import { toGtin14 } from '@evalon/contracts';
 import { addCalendarDays } from '@evalon/scheduling';
-import type { TestApp } from './app';
+import { startTestApp, type TestApp } from './app';
+import { carrierWebhookSecret, startCarrier, type RunningCarrier } from './carrier';
 import {
   makeHospital,
   makeLender,
@@ -11,7 +12,14 @@ import {
   type TestLender,
 } from './catalog';
 import { signedInClient, type Client } from './http';
-import { flushWebhooks, payOnHostedPage, type RunningFake } from './payments';
+import {
+  flushWebhooks,
+  listen,
+  payOnHostedPage,
+  registerWebhook,
+  startPaymentsFake,
+  type RunningFake,
+} from './payments';
 
 /** A lender (fleet manager, coordinator, depot) and a hospital (buyer, campus), signed in. */
 export interface World {
@@ -124,5 +132,45 @@ export function shipmentKit(t: () => TestApp, fake: () => RunningFake) {
     loanState,
     legsOf,
     packed,
+  };
+}
+
+/** The app on a loopback port with the payments fake and the carrier stand-in wired to it. */
+export interface ShipmentStandIns {
+  t: TestApp;
+  fake: RunningFake;
+  carrier: RunningCarrier;
+  server: { url: string; close(): Promise<void> };
+  close(): Promise<void>;
+}
+
+/**
+ * Starts the payments fake and the carrier stand-in (child processes on free ports) and the app
+ * listening on loopback, with both stand-ins' signed webhooks pointed at it.
+ */
+export async function startShipmentStandIns(): Promise<ShipmentStandIns> {
+  const fake = await startPaymentsFake();
+  const carrier = await startCarrier();
+  const t = await startTestApp(
+    { EVALON_PAYMENTS_PORT: String(fake.port), EVALON_DEPOSIT_EXPIRY_JOB: 'off' },
+    { outboxWorker: false },
+  );
+  const server = await listen(t.app);
+  await registerWebhook(fake, `${server.url}/api/webhooks/payments`);
+  await carrier.control('POST', '/webhook-endpoint', {
+    url: `${server.url}/api/webhooks/carrier`,
+    secret: carrierWebhookSecret,
+  });
+  return {
+    t,
+    fake,
+    carrier,
+    server,
+    async close() {
+      await server.close();
+      await t.close();
+      await fake.stop();
+      await carrier.stop();
+    },
   };
 }
