@@ -1,6 +1,13 @@
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { Injectable, inject } from '@angular/core';
-import type { Loan, LoanState, OutboxMessage, ShipmentSummary, Visit } from '@evalon/contracts';
+import type {
+  Loan,
+  LoanState,
+  OutboxMessage,
+  ShipmentList,
+  ShipmentSummary,
+  Visit,
+} from '@evalon/contracts';
 import { Observable, map } from 'rxjs';
 
 /** Most loans Home reads at once (the contract's upper limit): enough to count them all. */
@@ -34,9 +41,7 @@ export class HomeApi {
       .set('direction', 'return')
       .set('pageSize', HOME_SHIPMENT_LIMIT)
       .set('sort', 'due');
-    return this.http
-      .get<{ items: ShipmentSummary[] }>('/api/shipments', { params })
-      .pipe(map((r) => r.items));
+    return this.http.get<ShipmentList>('/api/shipments', { params }).pipe(map((r) => r.shipments));
   }
 
   /** E-mails parked after their attempts ran out (platform admin). */

@@ -49,6 +49,33 @@ const confirmed = loan({ id: 13, reference: 'EV-2026-000013', state: 'confirmed'
 const closed = loan({ id: 14, reference: 'EV-2026-000014', state: 'closed' });
 const declined = loan({ id: 15, reference: 'EV-2026-000015', state: 'declined' });
 
+/** An invented return leg of a loan, in the shipments list's shape. */
+const returnLeg = (id: number, state: ShipmentSummary['state']) =>
+  ({
+    id,
+    reference: `SH-${id}`,
+    loanId: id,
+    loanReference: `EV-2027-00000${id}`,
+    loanState: 'returning',
+    direction: 'return',
+    state,
+    depotId: 1,
+    depotName: 'East Depot',
+    siteId: 2,
+    siteName: 'North Campus',
+    hospitalName: 'Velmora Health',
+    carrier: null,
+    trackingNumber: null,
+    carrierStatus: null,
+    dueBy: '2027-03-05',
+    shipBy: '2027-03-03',
+    eta: null,
+    risk: 'on_time',
+    itemsDone: 0,
+    itemsTotal: 3,
+    updatedAt: '2027-03-01T09:00:00Z',
+  }) as ShipmentSummary;
+
 const visitsUrl = '/api/visits';
 const returnsUrl = '/api/shipments?direction=return&pageSize=100&sort=due';
 
@@ -63,7 +90,7 @@ describe('Home', () => {
     // Visits and returns answer "none" unless a test says otherwise.
     const answers: Record<string, Answer> = {
       [visitsUrl]: { body: { items: [] } },
-      [returnsUrl]: { body: { items: [] } },
+      [returnsUrl]: { body: { shipments: [], total: 0, page: 1, pageSize: 100 } },
       ...given,
     };
     TestBed.configureTestingModule({
@@ -178,6 +205,18 @@ describe('Home', () => {
     expect(cards[0]).toContain('EV-2026-000013 ships by Mon, Feb 22, 2027');
     expect(cards[1]).toContain('No returns waiting for inspection');
     expect(fixture.nativeElement.querySelector('a.item').getAttribute('href')).toBe('/loans/13');
+  });
+
+  it('asks a coordinator to inspect the returns back at the depot', async () => {
+    const { loader } = await render([membership('dralvik', 'coordinator')], {
+      '/api/loans?limit=500&state=confirmed': { body: { items: [] } },
+      [returnsUrl]: {
+        body: { shipments: [returnLeg(2, 'received')], total: 1, page: 1, pageSize: 100 },
+      },
+    });
+    const cards = await cardTexts(loader);
+    expect(cards[1]).toContain('1 return to inspect');
+    expect(cards[1]).toContain('Inspect EV-2027-000002');
   });
 
   it('gives a coordinator an honest empty state when nothing is confirmed', async () => {
@@ -414,37 +453,16 @@ describe('next steps from visits and returns', () => {
   });
 
   it('asks a coordinator to inspect received returns before those on the way', () => {
-    const leg = (id: number, state: ShipmentSummary['state']) =>
-      ({
-        id,
-        reference: `SH-${id}`,
-        loanId: id,
-        loanReference: `EV-2027-00000${id}`,
-        loanState: 'returning',
-        direction: 'return',
-        state,
-        depotId: 1,
-        depotName: 'East Depot',
-        siteId: 2,
-        siteName: 'North Campus',
-        hospitalName: 'Velmora Health',
-        carrier: null,
-        trackingNumber: null,
-        carrierStatus: null,
-        dueBy: '2027-03-05',
-        shipBy: '2027-03-03',
-        eta: null,
-        risk: 'on_time',
-        itemsDone: 0,
-        itemsTotal: 3,
-        updatedAt: '2027-03-01T09:00:00Z',
-      }) as ShipmentSummary;
-    const summary = returnsSummary([leg(1, 'in_transit'), leg(2, 'received'), leg(3, 'inspected')]);
+    const summary = returnsSummary([
+      returnLeg(1, 'in_transit'),
+      returnLeg(2, 'received'),
+      returnLeg(3, 'inspected'),
+    ]);
     expect(summary?.headline).toBe('1 return to inspect');
     expect(summary?.items.map((i) => i.text)).toEqual([
       'Inspect EV-2027-000002',
       'EV-2027-000001 on its way back',
     ]);
-    expect(returnsSummary([leg(3, 'inspected')])).toBeNull();
+    expect(returnsSummary([returnLeg(3, 'inspected')])).toBeNull();
   });
 });
